@@ -1,0 +1,48 @@
+#pragma once
+// Evaluate one inductor-diode pair on a design: every corner, every limit.
+// The analytical steady state is the fast path the optimiser calls.
+
+#include "converter/operating_point.hpp"
+#include "design/design.hpp"
+#include "parts/diode_model.hpp"
+#include "parts/inductor_model.hpp"
+
+#include <string>
+#include <vector>
+
+namespace coilsieve::converter {
+
+// The corners of a design for a part with inductance tolerance `l_tolerance` (fraction).
+std::vector<Corner> make_corners(const design::Design& d, double l_tolerance);
+
+// The design's own setting (band in A, or frequency), before any tuning.
+Setting default_setting(const design::Design& d);
+
+// Analytical periodic steady state at one corner, thermal fixed point included.
+CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel& l,
+                             const parts::DiodeModel& diode, const Corner& c, const Setting& s);
+
+// One limit checked at one corner. margin = (bound - value)/|bound| for upper limits, the
+// opposite for lower ones: >= 0 holds, < 0 broken. The optimiser uses margins as constraints.
+struct LimitCheck {
+    std::string limit;   // "load_ripple", "f_sw_max", "isat", "vrrm", "tj_max", ...
+    std::string corner;  // corner name, or "" for part-only limits (height)
+    double value = 0.0;  // SI
+    double bound = 0.0;  // SI
+    double margin = 0.0;
+    std::string message; // plain sentence with numbers, for a broken limit
+};
+
+struct PairEvaluation {
+    std::vector<CornerResult> corners;
+    std::vector<LimitCheck> checks;       // every limit at every corner
+    std::vector<LimitCheck> violations;   // the broken ones
+    bool feasible = false;
+    double loss_nominal = 0.0;            // W at the nominal corner, or time-weighted for a charger
+    double efficiency_nominal = 0.0;
+};
+
+PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
+                             const parts::Diode& diode, const Setting& s);
+
+} // namespace coilsieve::converter
