@@ -46,7 +46,12 @@ public:
 };
 
 // Parse "4.7uH", "4u7", "4R7", "2k2", "R047", "35 mΩ", "4.7e-6", "20%", "55C".
-// A bare number is in SI base units (temperatures: °C). Throws ParseError.
+// A bare number is in SI base units (temperatures: °C, ratios: a fraction). Prefixes f p n u µ μ
+// m k M G are case-sensitive. IEC 60062 codes: a prefix letter as decimal point ("4u7", "2k2")
+// implies the field's SI unit; "R" as decimal point ("4R7", "R047") is a plain decimal point,
+// meaning ohm for a resistance (where the capital "K" of "4K7" is kilo). A bare prefix ("10k",
+// "4.7u") is a prefix on the SI unit. Throws ParseError (empty, two numbers, unknown unit or
+// prefix, unit of another dimension, NaN/inf/overflow, text after the unit, below 0 K).
 double parse(std::string_view text, Dimension expected);
 
 // Parse with a default unit for bare numbers, e.g. a CSV column headed "L (uH)": parse("4.7",
@@ -59,9 +64,17 @@ struct FormatOptions {
     bool unit = true;     // append the unit
 };
 
-// Engineering notation: 4.7e-6 H -> "4.7 µH", 0.035 Ω -> "35 mΩ", 1.2 A -> "1.20 A",
+// Engineering notation: 4.7e-6 H -> "4.70 µH", 0.035 Ω -> "35.0 mΩ", 1.2 A -> "1.20 A",
 // 215e3 Hz -> "215 kHz", 328.15 K -> "55.0 °C", 0.2 ratio -> "20.0 %".
+// Non-finite values print "n/a". Lengths print in mm, areas in mm², volumes in mm³, battery
+// capacities in mAh/Ah. With unit = false the number is printed without prefix in unit_symbol(d),
+// so parse(format(x, d, {.unit = false}), d, unit_symbol(d)) recovers x to the digits printed.
 std::string format(double si_value, Dimension d, FormatOptions options = {});
+
+// The number alone in a given unit, e.g. for a CSV column headed "L (uH)": format_in(4.7e-6,
+// inductance, "uH") = "4.70"; the inverse of parse(text, d, unit). Throws ParseError for a unit
+// that does not belong to the dimension.
+std::string format_in(double si_value, Dimension d, std::string_view unit, int significant = 3);
 
 // Absolute temperature helpers.
 constexpr double zero_celsius = 273.15;
