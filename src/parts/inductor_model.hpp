@@ -15,6 +15,7 @@ struct InductorModel {
     double dcr_t0 = 293.15;   // K
     double ac_factor = 1.0;   // R_ac/DCR at 100 kHz
     Steinmetz core;
+    double core_ki = 0.0;     // iGSE k_i of `core`, set by make_model (computed on use if 0)
     double b_sat = 0.3;       // T at isat (flux-swing estimate)
     double core_volume = 0.0; // m^3
     double rth = 0.0;         // K/W, hot spot to ambient, from the rated rise
