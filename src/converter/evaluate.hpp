@@ -12,11 +12,21 @@
 
 namespace coilsieve::converter {
 
+// The switch is taken this far above the corner's ambient for its R_on(T) (an assumption: the
+// design gives no thermal data for the switch; 30 K is a typical rise of a small MOSFET on a board).
+constexpr double switch_temperature_rise = 30.0; // K
+
 // The corners of a design for a part with inductance tolerance `l_tolerance` (fraction).
 std::vector<Corner> make_corners(const design::Design& d, double l_tolerance);
 
 // The design's own setting (band in A, or frequency), before any tuning.
 Setting default_setting(const design::Design& d);
+
+// The setting as it applies at one corner. A band given as a fraction of the target current
+// scales with the corner's load-point current (a charger lowers its reference in pre-charge and
+// constant voltage, and the comparator's band follows it); a band given in amperes is kept.
+// evaluate_pair calls evaluate_corner with this; a simulator comparing a corner should too.
+Setting corner_setting(const design::Design& d, const Corner& c, const Setting& s);
 
 // Analytical periodic steady state at one corner, thermal fixed point included.
 CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel& l,

@@ -38,6 +38,7 @@ struct Losses {
     double switch_conduction = 0.0;
     double switch_switching = 0.0; // transitions + gate + output capacitance
     double sense = 0.0;
+    double capacitor = 0.0;        // output capacitor ESR (ripple share through it)
     double total = 0.0;
 };
 
@@ -66,15 +67,24 @@ struct CornerResult {
     double id_avg = 0.0;
     double id_rms = 0.0;
     double isw_rms = 0.0;
+    double isw_avg = 0.0;       // A, average switch (= supply) current of the waveform
     bool dcm = false;
     Losses losses;
     double p_out = 0.0;         // W
+    // W from the supply: vin·isw_avg plus the losses the waveform does not carry (core, AC copper
+    // excess, switching, recovery, capacitive, leakage, gate). Equals p_out + losses.total up to
+    // the waveform's own energy-balance residual, which the tests hold below 0.5 %.
+    double p_in = 0.0;
     double efficiency = 0.0;
     double t_inductor = 0.0;    // K, hot spot
     double tj_diode = 0.0;      // K
+    double t_switch = 0.0;      // K, switch temperature assumed (ambient + switch_temperature_rise)
     double v_reverse = 0.0;     // V, diode reverse voltage while the switch is on
     double l_at_peak = 0.0;     // H, inductance at the peak current (roll-off)
     double regulation_error = 0.0; // (load_i_avg - target) / target
+    // (I_reach - I_need)/I_need: how far the on-interval's asymptotic current I_reach = (Vin - V)/R
+    // is above what regulation needs (the upper threshold, or the target for PWM); < 0 means lost.
+    double regulation_headroom = 0.0;
     CornerStatus status = CornerStatus::ok;
     std::string reason;         // plain sentence when status != ok
 };

@@ -1,1 +1,946 @@
-// placeholder; filled in by the domain's work
+// Analytical periodic steady state of one inductor-diode pair at one corner.
+//
+// Model (domain notes, "The circuit"): each switching interval is a linear R–L segment,
+//   on:  L·di/dt = Vin − V_load(i) − i·(R_on + R_sense + DCR)
+//   off: L·di/dt = −(V_load(i) + V_f(i) + i·(R_sense + DCR)),
+// solved exactly as exponentials (segment.hpp). The load is v0 + r·i. The diode's V_f(i) is
+// replaced by a straight line V_d0 + r_d·i fitted over its conduction interval (least squares in
+// time, so its volt-seconds and its energy match the SPICE curve), and the inductance by its
+// value at each stretch's mid current
+// (hysteretic: four sub-stretches in current when L(i) varies; PWM: per interval the 1/v-weighted
+// mean of L(i) over the ripple, which keeps its times exact, plus the charge it misses).
+// Temperatures, the diode line, L and the capacitor's share of the ripple are iterated to a joint
+// fixed point. Nothing on this path allocates unless the corner fails and a reason is written.
+
+#include "converter/evaluate.hpp"
+#include "converter/segment.hpp"
+#include "units/quantity.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <complex>
+#include <limits>
+#include <numbers>
+#include <string>
+
+namespace coilsieve::converter {
+
+namespace {
+
+using units::Dimension;
+
+constexpr double t25 = 298.15;            // K, reference of the switch's R_on
+constexpr double temperature_tol = 0.05;  // K, thermal fixed point
+constexpr double current_tol = 1e-6;      // relative to the target, linearisation points
+constexpr int max_iterations = 50;
+constexpr double diode_runaway_margin = 100.0;   // K beyond tj_max: leakage has run away
+constexpr double inductor_runaway_margin = 300.0; // K beyond t_max: the winding has run away
+constexpr int sub_stretches = 4;          // per ramp when L(i) varies over the ripple
+constexpr double flat_inductance = 1e-3;  // relative L change over the ripple treated as flat
+constexpr double d_min = 1e-9, d_max = 1.0 - 1e-9;
+
+std::string fmt(double v, Dimension d) { return units::format(v, d); }
+
+// SPICE forward law at one junction temperature, V_f = N·Vt·ln(1 + i/IS(T)) + RS·i, the same
+// expression as parts::DiodeModel::vf (ngspice diode model) with IS(T) evaluated once.
+struct Forward {
+    double nvt = 0.0, is = 1.0, rs = 0.0;
+    double operator()(double i) const { return i > 0.0 ? nvt * std::log1p(i / is) + rs * i : 0.0; }
+};
+
+struct Wave {
+    double i_valley = 0.0, i_peak = 0.0;
+    double t_on = 0.0, t_off = 0.0, t_idle = 0.0;
+    double q_on = 0.0, q2_on = 0.0, q_off = 0.0, q2_off = 0.0;
+    bool dcm = false;
+    double period() const { return t_on + t_off + t_idle; }
+};
+
+// phi1, phi2 of segment.hpp with one expm1: enough for the charge of a stretch.
+struct Phi12 {
+    double p1, p2, x; // x = e^−z
+};
+Phi12 phi12(double z) {
+    if (z < 0.05) {
+        const detail::Phi p = detail::phi(z);
+        return {p.p1, p.p2, std::exp(-z)};
+    }
+    const double em1 = std::expm1(-z);
+    return {-em1 / z, (z + em1) / (z * z), 1.0 + em1};
+}
+
+// --- hysteretic -------------------------------------------------------------------------------
+
+struct Inductance {
+    const parts::InductorModel& model;
+    double scale;
+    bool flat;
+    double l_flat;
+    double at(double i) const { return flat ? l_flat : model.inductance(i, scale); }
+};
+
+// From i0 to i1 on a segment, in sub-stretches of current with L at each one's middle.
+Stretch ramp_current(Segment s, double i0, double i1, const Inductance& ind) {
+    if (ind.flat) {
+        s.l = ind.l_flat;
+        return ramp(s, i0, i1);
+    }
+    Stretch sum;
+    sum.i0 = i0;
+    sum.i1 = i1;
+    const double h = (i1 - i0) / sub_stretches;
+    for (int k = 0; k < sub_stretches; ++k) {
+        const double a = i0 + h * k;
+        const double b = k + 1 == sub_stretches ? i1 : a + h;
+        s.l = ind.model.inductance(0.5 * (a + b), ind.scale);
+        const Stretch st = ramp(s, a, b);
+        sum.dt += st.dt;
+        sum.q += st.q;
+        sum.q2 += st.q2;
+    }
+    return sum;
+}
+
+// Running a segment for a fixed time (the comparator delay), L at the stretch's mid current.
+Stretch run_for(Segment s, double i0, double dt, const Inductance& ind) {
+    s.l = ind.at(i0);
+    Stretch st = advance(s, i0, dt);
+    if (!ind.flat) {
+        s.l = ind.at(0.5 * (i0 + std::max(st.i1, 0.0)));
+        st = advance(s, i0, dt);
+    }
+    return st;
+}
+
+// Hysteretic cycle: on from the valley through I_hi, on for t_d more (peak); off through I_lo,
+// off for t_d more (valley). If the valley would fall below zero the diode blocks and the
+// current rests at zero until the delayed turn-on. Needs on.v(I_hi) > 0 and off.v(I_lo) < 0.
+Wave hysteretic_wave(const Segment& on, const Segment& off, double i_lo, double i_hi, double td,
+                     const Inductance& ind) {
+    Wave w;
+    Stretch off_delay; // I_lo -> valley
+    off_delay.i0 = off_delay.i1 = i_lo;
+    if (td > 0.0) {
+        off_delay = run_for(off, i_lo, td, ind);
+        if (off_delay.i1 < 0.0) {
+            Segment s = off;
+            s.l = ind.at(0.5 * i_lo);
+            off_delay = ramp(s, i_lo, 0.0);
+            w.t_idle = std::max(0.0, td - off_delay.dt);
+            w.dcm = true;
+        }
+    }
+    w.i_valley = std::max(off_delay.i1, 0.0);
+    const Stretch up = ramp_current(on, w.i_valley, i_hi, ind);
+    Stretch on_delay;
+    on_delay.i0 = on_delay.i1 = i_hi;
+    if (td > 0.0) on_delay = run_for(on, i_hi, td, ind);
+    w.i_peak = on_delay.i1;
+    const Stretch down = ramp_current(off, w.i_peak, i_lo, ind);
+    w.t_on = up.dt + on_delay.dt;
+    w.t_off = down.dt + off_delay.dt;
+    w.q_on = up.q + on_delay.q;
+    w.q2_on = up.q2 + on_delay.q2;
+    w.q_off = down.q + off_delay.q;
+    w.q2_off = down.q2 + off_delay.q2;
+    return w;
+}
+
+// --- PWM -------------------------------------------------------------------------------------
+
+// Periodic steady state at duty d (both segments carry the same L). CCM: the cycle map
+// i_v -> i_p = x1·i_v + a1 -> i_v = x2·i_p + a2 has the fixed point i_v = (a2 + x2·a1)/(1 − x1·x2).
+// If that is negative the diode blocks at zero (DCM) and the cycle starts from zero.
+// With `full` false only the charges are computed (the duty search needs no more).
+Wave pwm_wave(const Segment& on, const Segment& off, double period, double d, bool full) {
+    Wave w;
+    w.t_on = d * period;
+    const double t_off = period - w.t_on;
+    const double z1 = on.r * w.t_on / on.l;
+    const double z2 = off.r * t_off / off.l;
+    const Phi12 f1 = phi12(z1);
+    const Phi12 f2 = phi12(z2);
+    const double a1 = on.e / on.l * w.t_on * f1.p1;
+    const double a2 = off.e / off.l * t_off * f2.p1;
+    const double den = -std::expm1(-(z1 + z2));
+    double iv = den > 0.0 ? (a2 + f2.x * a1) / den : (a1 + a2 > 0.0 ? 1e12 : -1.0);
+    if (iv >= 0.0) {
+        w.i_valley = iv;
+        const double s1 = on.v(iv) / on.l;
+        w.i_peak = iv + s1 * w.t_on * f1.p1;
+        const double s2 = off.v(w.i_peak) / off.l;
+        w.t_off = t_off;
+        w.q_on = iv * w.t_on + s1 * w.t_on * w.t_on * f1.p2;
+        w.q_off = w.i_peak * t_off + s2 * t_off * t_off * f2.p2;
+        if (full) {
+            const Stretch a = advance(on, iv, w.t_on);
+            const Stretch b = advance(off, w.i_peak, t_off);
+            w.q2_on = a.q2;
+            w.q2_off = b.q2;
+        }
+        return w;
+    }
+    w.dcm = true;
+    w.i_valley = 0.0;
+    w.i_peak = a1;
+    const double s1 = on.e / on.l;
+    w.q_on = s1 * w.t_on * w.t_on * f1.p2;
+    const Stretch down = ramp(off, w.i_peak, 0.0);
+    const double t_down = std::isfinite(down.dt) ? std::min(down.dt, t_off) : t_off;
+    w.t_off = t_down;
+    w.t_idle = t_off - t_down;
+    w.q_off = down.q;
+    if (full) {
+        w.q2_on = advance(on, 0.0, w.t_on).q2;
+        w.q2_off = down.q2;
+    }
+    return w;
+}
+
+// Inductance of the two PWM intervals when L depends on the current. Along a segment
+// dt = L(i)·di/v(i), so the interval from i0 to i1 lasts ∫L/v di (Kirchhoff on the R–L loop with
+// L(i), integrated in current): a constant L equal to the 1/v-weighted mean of L(i) over the
+// ripple gives the same end currents and times exactly, and what that constant L gets wrong in
+// the charges ∫i dt and ∫i² dt is added back as dq, dq2 (∫iⁿ·(L(i) − L_eff)/v di). Both are
+// taken over the previous pass's ripple, so they are exact at the fixed point. Quadrature:
+// 8-point Gauss–Legendre (Abramowitz & Stegun 25.4.30).
+struct PwmInductance {
+    double l_on = 0.0, l_off = 0.0;
+    double dq_on = 0.0, dq2_on = 0.0, dq_off = 0.0, dq2_off = 0.0;
+};
+
+PwmInductance pwm_inductance(const parts::InductorModel& l, double scale, const Segment& on,
+                             const Segment& off, double lo, double hi) {
+    PwmInductance p;
+    const double la = l.inductance(lo, scale);
+    const double lb = l.inductance(hi, scale);
+    if (!(hi > lo) || std::abs(la - lb) <= flat_inductance * std::max(la, lb)) {
+        p.l_on = p.l_off = (la + 4.0 * l.inductance(0.5 * (lo + hi), scale) + lb) / 6.0;
+        return p;
+    }
+    constexpr double x[4] = {0.1834346424956498, 0.5255324099163290, 0.7966664774136267,
+                             0.9602898564975363};
+    constexpr double wt[4] = {0.3626837833783620, 0.3137066458778873, 0.2223810344533745,
+                              0.1012285362903763};
+    const double c = 0.5 * (hi + lo), h = 0.5 * (hi - lo);
+    double i_n[8], l_n[8], g_on[8], g_off[8];
+    double w_on = 0.0, wl_on = 0.0, w_off = 0.0, wl_off = 0.0;
+    for (int k = 0; k < 8; ++k) {
+        const double sgn = k < 4 ? -1.0 : 1.0;
+        const double i = c + sgn * h * x[k % 4];
+        const double vo = on.v(i), vf = -off.v(i);
+        i_n[k] = i;
+        l_n[k] = l.inductance(i, scale);
+        g_on[k] = vo > 0.0 ? wt[k % 4] / vo : 0.0;
+        g_off[k] = vf > 0.0 ? wt[k % 4] / vf : 0.0;
+        w_on += g_on[k];
+        wl_on += g_on[k] * l_n[k];
+        w_off += g_off[k];
+        wl_off += g_off[k] * l_n[k];
+    }
+    if (!(w_on > 0.0) || !(w_off > 0.0)) {
+        p.l_on = p.l_off = (la + 4.0 * l.inductance(c, scale) + lb) / 6.0;
+        return p;
+    }
+    p.l_on = wl_on / w_on;
+    p.l_off = wl_off / w_off;
+    for (int k = 0; k < 8; ++k) {
+        const double a = g_on[k] * (l_n[k] - p.l_on) * h;
+        const double b = g_off[k] * (l_n[k] - p.l_off) * h;
+        p.dq_on += a * i_n[k];
+        p.dq2_on += a * i_n[k] * i_n[k];
+        p.dq_off += b * i_n[k];
+        p.dq2_off += b * i_n[k] * i_n[k];
+    }
+    return p;
+}
+
+// PWM with a capacitor across the load: the state is (i_L, v_C), linear within each interval
+// (diode as its fitted line, L at the interval's effective value), x' = A·x + b. Each interval is
+// solved exactly with the closed-form 2×2 matrix exponential e^{At} = e^{μt}·(c·I + s·(A − μI)),
+// μ = tr A/2, δ² = μ² − det A, c = cosh δt, s = sinh(δt)/δ (cos/sin for δ² < 0) (Cayley–Hamilton),
+// around the interval's equilibrium x* = −A⁻¹b; the periodic state solves the 2×2 fixed point
+// x0 = Φ_off·(Φ_on·x0 + g_on) + g_off. Integrals by composite Simpson on the exact waveform.
+struct Lin2 {
+    double a11, a12, a21, a22, b1, b2;
+};
+struct Output2 {
+    double alpha, beta, gamma, r; // v_o = alpha·v_C + beta·i_L + gamma; i_load = (v_o − v0)/r
+    double v0;
+    double i_load(double i, double v) const { return (alpha * v + beta * i + gamma - v0) / r; }
+};
+struct Mat2 {
+    double m11, m12, m21, m22;
+};
+Mat2 expm2(const Lin2& a, double t) {
+    const double mu = 0.5 * (a.a11 + a.a22);
+    const double det = a.a11 * a.a22 - a.a12 * a.a21;
+    const double d2 = mu * mu - det;
+    double c, sn;
+    if (d2 > 0.0) {
+        const double dl = std::sqrt(d2);
+        c = std::cosh(dl * t);
+        sn = dl * t > 1e-8 ? std::sinh(dl * t) / dl : t;
+    } else if (d2 < 0.0) {
+        const double dl = std::sqrt(-d2);
+        c = std::cos(dl * t);
+        sn = dl * t > 1e-8 ? std::sin(dl * t) / dl : t;
+    } else {
+        c = 1.0;
+        sn = t;
+    }
+    const double em = std::exp(mu * t);
+    return {em * (c + sn * (a.a11 - mu)), em * sn * a.a12, em * sn * a.a21,
+            em * (c + sn * (a.a22 - mu))};
+}
+// Equilibrium −A⁻¹b.
+void equilibrium(const Lin2& a, double& i, double& v) {
+    const double det = a.a11 * a.a22 - a.a12 * a.a21;
+    i = -(a.a22 * a.b1 - a.a12 * a.b2) / det;
+    v = -(-a.a21 * a.b1 + a.a11 * a.b2) / det;
+}
+struct Wave2 {
+    bool ok = false;
+    double i0 = 0.0, v0 = 0.0, i_peak = 0.0;
+    double q_on = 0.0, q2_on = 0.0, q_off = 0.0, q2_off = 0.0;
+    double load_min = 0.0, load_max = 0.0, load_q2 = 0.0, cap_q2 = 0.0; // ∫ over the period
+};
+Wave2 pwm_wave2(const Lin2& on, const Lin2& off, const Output2& o, double period, double d,
+                bool full) {
+    Wave2 w;
+    const double t1 = d * period, t2 = period - t1;
+    const Mat2 p1 = expm2(on, t1), p2 = expm2(off, t2);
+    double e1i, e1v, e2i, e2v;
+    equilibrium(on, e1i, e1v);
+    equilibrium(off, e2i, e2v);
+    // x0 = e2 + P2·(e1 + P1·(x0 − e1) − e2) => (I − P2·P1)·x0 = e2 − P2·e2 + P2·e1 − P2·P1·e1.
+    const Mat2 m{p2.m11 * p1.m11 + p2.m12 * p1.m21, p2.m11 * p1.m12 + p2.m12 * p1.m22,
+                 p2.m21 * p1.m11 + p2.m22 * p1.m21, p2.m21 * p1.m12 + p2.m22 * p1.m22};
+    const double di = e1i - e2i, dv = e1v - e2v;
+    const double ri = e2i + p2.m11 * di + p2.m12 * dv - (m.m11 * e1i + m.m12 * e1v);
+    const double rv = e2v + p2.m21 * di + p2.m22 * dv - (m.m21 * e1i + m.m22 * e1v);
+    const double a11 = 1.0 - m.m11, a12 = -m.m12, a21 = -m.m21, a22 = 1.0 - m.m22;
+    const double det = a11 * a22 - a12 * a21;
+    if (!(std::abs(det) > 0.0)) return w;
+    w.i0 = (a22 * ri - a12 * rv) / det;
+    w.v0 = (a11 * rv - a21 * ri) / det;
+    const double xi1 = e1i + p1.m11 * (w.i0 - e1i) + p1.m12 * (w.v0 - e1v);
+    const double xv1 = e1v + p1.m21 * (w.i0 - e1i) + p1.m22 * (w.v0 - e1v);
+    w.i_peak = xi1;
+    // Simpson over each interval on the exact solution.
+    constexpr int n = 16;
+    w.load_min = std::numeric_limits<double>::infinity();
+    w.load_max = -w.load_min;
+    auto run = [&](const Lin2& a, double ei, double ev, double xi, double xv, double t, double& q,
+                   double& q2) {
+        const double h = t / n;
+        for (int k = 0; k <= n; ++k) {
+            const Mat2 p = expm2(a, h * k);
+            const double i = ei + p.m11 * (xi - ei) + p.m12 * (xv - ev);
+            const double v = ev + p.m21 * (xi - ei) + p.m22 * (xv - ev);
+            const double wk = (k == 0 || k == n) ? 1.0 : (k % 2 == 1 ? 4.0 : 2.0);
+            q += wk * i;
+            q2 += wk * i * i;
+            if (full) {
+                const double il = o.i_load(i, v);
+                const double ic = i - il;
+                w.load_min = std::min(w.load_min, il);
+                w.load_max = std::max(w.load_max, il);
+                w.load_q2 += wk * il * il * h / 3.0;
+                w.cap_q2 += wk * ic * ic * h / 3.0;
+            }
+        }
+        q *= h / 3.0;
+        q2 *= h / 3.0;
+    };
+    run(on, e1i, e1v, w.i0, w.v0, t1, w.q_on, w.q2_on);
+    run(off, e2i, e2v, xi1, xv1, t2, w.q_off, w.q2_off);
+    w.ok = std::isfinite(w.q_on) && std::isfinite(w.q_off) && w.i0 > 0.0;
+    return w;
+}
+
+// Brent's method (R. P. Brent, Algorithms for Minimization without Derivatives, 1973, ch. 4):
+// bracketed root of f on [a, b] with f(a)·f(b) <= 0.
+template <class F>
+double brent_root(F&& f, double a, double b, double fa, double fb, double xtol, double ftol,
+                  int max_it) {
+    if (std::abs(fa) < std::abs(fb)) {
+        std::swap(a, b);
+        std::swap(fa, fb);
+    }
+    double c = a, fc = fa, d = b - a, e = d;
+    for (int it = 0; it < max_it; ++it) {
+        if (std::abs(fb) <= ftol) return b;
+        if ((fb > 0.0) == (fc > 0.0)) {
+            c = a;
+            fc = fa;
+            d = e = b - a;
+        }
+        if (std::abs(fc) < std::abs(fb)) {
+            a = b;
+            b = c;
+            c = a;
+            fa = fb;
+            fb = fc;
+            fc = fa;
+        }
+        const double tol = 2.0 * 1e-16 * std::abs(b) + 0.5 * xtol;
+        const double m = 0.5 * (c - b);
+        if (std::abs(m) <= tol) return b;
+        if (std::abs(e) >= tol && std::abs(fa) > std::abs(fb)) {
+            // Inverse quadratic interpolation (secant when only two points differ).
+            double p, q;
+            const double s = fb / fa;
+            if (a == c) {
+                p = 2.0 * m * s;
+                q = 1.0 - s;
+            } else {
+                const double qq = fa / fc, r = fb / fc;
+                p = s * (2.0 * m * qq * (qq - r) - (b - a) * (r - 1.0));
+                q = (qq - 1.0) * (r - 1.0) * (s - 1.0);
+            }
+            if (p > 0.0)
+                q = -q;
+            else
+                p = -p;
+            if (2.0 * p < std::min(3.0 * m * q - std::abs(tol * q), std::abs(e * q))) {
+                e = d;
+                d = p / q;
+            } else {
+                d = e = m;
+            }
+        } else {
+            d = e = m;
+        }
+        a = b;
+        fa = fb;
+        b += std::abs(d) > tol ? d : (m > 0.0 ? tol : -tol);
+        fb = f(b);
+    }
+    return b;
+}
+
+// Duty for an average current `target`; false when even d_max cannot reach it.
+bool solve_duty(const Segment& on, const Segment& off, double period, double target, double guess,
+                double step, double& duty) {
+    auto g = [&](double d) {
+        const Wave w = pwm_wave(on, off, period, d, false);
+        return (w.q_on + w.q_off) / period - target;
+    };
+    double a = std::clamp(guess - step, d_min, d_max);
+    double b = std::clamp(guess + step, d_min, d_max);
+    double fa = g(a), fb = g(b);
+    while (fa > 0.0 && a > d_min) {
+        b = a;
+        fb = fa;
+        step *= 4.0;
+        a = std::max(d_min, a - step);
+        fa = g(a);
+    }
+    while (fb < 0.0 && b < d_max) {
+        a = b;
+        fa = fb;
+        step *= 4.0;
+        b = std::min(d_max, b + step);
+        fb = g(b);
+    }
+    if (fb < 0.0 || fa > 0.0) return false;
+    duty = brent_root(g, a, b, fa, fb, 1e-13, 1e-10 * target, 100);
+    return true;
+}
+
+// --- the corner ------------------------------------------------------------------------------
+
+CornerResult fail(CornerResult r, CornerStatus status, std::string reason) {
+    r.status = status;
+    r.reason = std::move(reason);
+    return r;
+}
+
+// Load ripple path at the switching frequency (fundamental only): the inductor ripple splits
+// between the load's dynamic resistance r and the capacitor branch Z_c = ESR + 1/(jωC)
+// (current divider). k = |Z_c/(Z_c + r)| is the share through the load; the ripple sees the
+// parallel impedance, whose real part is the power it dissipates (load share + ESR share).
+struct RipplePath {
+    double k_load = 1.0;    // |I_load,ripple / I_L,ripple|
+    double k_cap2 = 0.0;    // |I_cap,ripple / I_L,ripple|²
+    double r_ripple = 0.0;  // Ω, Re(r ∥ Z_c): what the ripple current works against
+};
+
+RipplePath ripple_path(double r, double capacitance, double esr, double frequency) {
+    RipplePath p;
+    p.r_ripple = r;
+    if (!(capacitance > 0.0) || !(r > 0.0) || !(frequency > 0.0)) return p;
+    const double w = 2.0 * std::numbers::pi * frequency;
+    const std::complex<double> zc(esr, -1.0 / (w * capacitance));
+    const std::complex<double> sum = zc + r;
+    p.k_load = std::abs(zc / sum);
+    const double kc = r / std::abs(sum);
+    p.k_cap2 = kc * kc;
+    p.r_ripple = (r * zc / sum).real();
+    return p;
+}
+
+// Core loss of a cycle. iGSE with a resting flux (DCM): the rest adds no loss, so the loss is
+// that of the active part's frequency scaled by its share of the period (Venkatachalam et al.,
+// COMPEL 2002, the iGSE integral taken over the period).
+double core_loss(const parts::InductorModel& l, const Wave& w) {
+    const double ripple = w.i_peak - w.i_valley;
+    const double t_active = w.t_on + w.t_off;
+    const double tp = w.period();
+    if (!(t_active > 0.0) || !(tp > 0.0)) return 0.0;
+    if (w.t_idle > 0.0)
+        return l.core_loss(ripple, 1.0 / t_active, w.t_on / t_active) * t_active / tp;
+    return l.core_loss(ripple, 1.0 / tp, w.t_on / tp);
+}
+
+// Step of a scalar fixed point T <- g(T) from its last two updates. When they shrink
+// geometrically with one sign (ratio rho in (0, 0.9)) the remaining steps sum to d/(1 − rho)
+// (Aitken's extrapolation); otherwise a plain or damped step.
+// Only for steps well above the tolerance (small ones are noise from the other states), and
+// never twice in a row (the step after an extrapolation is not part of the geometric sequence).
+double thermal_step(double d, double& d_prev, double omega) {
+    double step = omega * d;
+    if (d_prev != 0.0 && std::abs(d) > 20.0 * temperature_tol) {
+        const double rho = d / d_prev;
+        if (rho > 0.05 && rho < 0.9) {
+            d_prev = 0.0;
+            return d / (1.0 - rho);
+        }
+    }
+    d_prev = d;
+    return step;
+}
+
+} // namespace
+
+CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel& l,
+                             const parts::DiodeModel& diode, const Corner& c, const Setting& s) {
+    CornerResult res;
+    res.name = c.name;
+    res.vin = c.vin;
+    res.ambient = c.ambient;
+    res.v_reverse = c.vin;
+    res.t_switch = c.ambient + switch_temperature_rise;
+    res.t_inductor = c.ambient;
+    res.tj_diode = c.ambient;
+
+    const double target = c.point.current;
+    const double amb = c.ambient;
+    const double vin = c.vin;
+    if (!(target > 0.0))
+        return fail(res, CornerStatus::no_regulation,
+                    "load point \"" + c.point.name + "\" asks for " + fmt(target, Dimension::current) +
+                        "; a target current above zero is needed");
+    if (!(l.l0 > 0.0) || !(l.isat > 0.0))
+        return fail(res, CornerStatus::no_convergence,
+                    "the inductor model has no positive inductance and saturation current");
+
+    const bool hysteretic = d.control.mode == design::ControlMode::hysteretic;
+    double i_lo = 0.0, i_hi = 0.0, period = 0.0;
+    const double td = std::max(0.0, d.control.delay);
+    if (hysteretic) {
+        const double band = std::max(s.band, 1e-6 * target); // a zero band still switches (delay)
+        i_lo = target - 0.5 * band;
+        i_hi = target + 0.5 * band;
+        if (!(i_lo > 0.0))
+            return fail(res, CornerStatus::no_regulation,
+                        "the hysteresis band " + fmt(band, Dimension::current) +
+                            " is at least twice the target current " +
+                            fmt(target, Dimension::current) +
+                            ": the lower threshold is not above zero, so the switch never turns on "
+                            "again");
+    } else {
+        const double f = s.frequency > 0.0 ? s.frequency : d.control.frequency;
+        if (!(f > 0.0))
+            return fail(res, CornerStatus::no_convergence,
+                        "PWM control needs a switching frequency above zero (control.frequency)");
+        period = 1.0 / f;
+    }
+
+    double cap_c = 0.0, cap_esr = 0.0;
+    if (d.output_capacitor) {
+        cap_c = d.output_capacitor->capacitance;
+        cap_esr = d.output_capacitor->esr;
+    }
+    if (s.capacitance) cap_c = *s.capacitance;
+    const bool capacitor = cap_c > 0.0 && c.point.r > 0.0;
+
+    // Switch R_on rises linearly from its 25 °C value (design.hpp); the switch sits at a fixed
+    // rise above ambient (switch_temperature_rise, an assumption).
+    const double ron = std::max(
+        0.0, d.sw.on_resistance * (1.0 + d.sw.on_resistance_tempco * (res.t_switch - t25)));
+    const double r_sense = std::max(0.0, d.sense_resistor);
+    const double v0 = c.point.v0;
+    const double r_load = std::max(0.0, c.point.r);
+
+    // Fixed-point state.
+    double t_l = amb, tj = amb;
+    double lin_lo = hysteretic ? i_lo : 0.9 * target;
+    double lin_hi = hysteretic ? i_hi : 1.1 * target;
+    double i_avg_prev = target;
+    const double l_eff = l.inductance(target, c.l_scale);
+    double f_prev = 0.0;
+    {
+        // Straight-line lossless estimate (domain notes) only to start the capacitor's divider.
+        const double vo = v0 + r_load * target;
+        if (hysteretic) {
+            const double di = i_hi - i_lo + td * vin / l_eff;
+            f_prev = vin > vo && vo > 0.0 ? vo * (vin - vo) / (vin * l_eff * di) : 1e5;
+        } else {
+            f_prev = 1.0 / period;
+        }
+    }
+    double duty_prev = -1.0;
+    double omega = 1.0, last_dl = 0.0, last_dj = 0.0;
+    const double tol_i = current_tol * target;
+
+    // Quantities of the last electrical solve, used after the loop.
+    Wave w;
+    double dcr = 0.0, rd = 0.0, vd0 = 0.0;
+    RipplePath path;
+    Segment on, off;
+    Segment prev_off;        // off segment of the previous pass: dt/di weights of the diode fit
+    bool have_prev_off = false;
+    double e_cond = 0.0; // J per cycle, ∫ V_f(i)·i dt over the diode's interval
+    double copper = 0.0, core = 0.0, leak = 0.0;
+    double t_l_new = amb, tj_new = amb;
+    bool converged = false;
+    int iterations = 0;
+    // PWM with a capacitor: the two-state solution's load ripple and mean squares (A², per s).
+    bool two_state = false;
+    double dq_used = 0.0; // A·s, relaxed charge correction of the PWM roll-off
+    double load_pp2 = 0.0, load_q2_2 = 0.0, cap_q2_2 = 0.0;
+    double core_ripple = -1.0, core_f = 0.0, core_duty = 0.0; // inputs of the cached core loss
+
+    for (int it = 0; it < max_iterations; ++it) {
+        iterations = it + 1;
+        dcr = l.dcr(t_l, c.dcr_max);
+
+        // Diode V_f at five currents over the present ripple (the fit and Simpson's rule share them).
+        const Forward vf{diode.fwd.n * parts::thermal_voltage(tj), diode.saturation_current(tj),
+                         diode.fwd.rs};
+        double node[5], vnode[5];
+        const double h = 0.25 * (lin_hi - lin_lo);
+        for (int k = 0; k < 5; ++k) {
+            node[k] = lin_lo + h * k;
+            vnode[k] = vf(node[k]);
+        }
+        // Straight line V_d0 + r_d·i fitted by least squares in time over the diode's interval
+        // (Simpson weights × dt/di of the previous cycle): it keeps both the diode's volt-seconds
+        // and its energy ∫V_f·i dt, so the waveform's energy balance holds with the true V_f.
+        bool fitted = false;
+        if (lin_hi - lin_lo > 1e-9 * target) {
+            double m0 = 0.0, m1 = 0.0, m2 = 0.0, s0 = 0.0, s1 = 0.0;
+            for (int k = 0; k < 5; ++k) {
+                const double i = node[k];
+                const double wk = (k == 0 || k == 4) ? 1.0 : (k % 2 == 1 ? 4.0 : 2.0);
+                const double lg = l.inductance(i, c.l_scale);
+                const double g = have_prev_off ? lg / -prev_off.v(i) : 1.0;
+                const double wg = wk * (g > 0.0 && std::isfinite(g) ? g : 0.0);
+                m0 += wg;
+                m1 += wg * i;
+                m2 += wg * i * i;
+                s0 += wg * vnode[k];
+                s1 += wg * vnode[k] * i;
+            }
+            const double det = m0 * m2 - m1 * m1;
+            if (det > 1e-12 * m0 * m2) {
+                rd = (m0 * s1 - m1 * s0) / det;
+                vd0 = (s0 * m2 - m1 * s1) / det;
+                fitted = rd >= 0.0 && std::isfinite(rd) && std::isfinite(vd0);
+            }
+        }
+        if (!fitted) {
+            const double im = std::max(node[2], 1e-9 * target);
+            rd = (vf(im * (1.0 + 1e-4)) - vf(im * (1.0 - 1e-4))) / (2e-4 * im);
+            vd0 = vf(im) - rd * im;
+        }
+
+        path = capacitor ? ripple_path(r_load, cap_c, cap_esr, f_prev) : RipplePath{1.0, 0.0, r_load};
+        // The load voltage the inductor sees: DC at v0 + r·I, ripple through r ∥ Z_c.
+        const double v0_eff = v0 + (r_load - path.r_ripple) * i_avg_prev;
+        on = Segment{vin - v0_eff, path.r_ripple + ron + r_sense + dcr, 0.0};
+        off = Segment{-(v0_eff + vd0), path.r_ripple + r_sense + dcr + rd, 0.0};
+        prev_off = off;
+        have_prev_off = true;
+
+        const double i_need = hysteretic ? i_hi : target;
+        const double i_reach = on.r > 0.0 ? on.e / on.r : (on.e > 0.0 ? 1e300 : -1e300);
+        res.regulation_headroom = std::clamp((i_reach - i_need) / i_need, -1e6, 1e6);
+        if (!(on.v(i_need) > 0.0)) {
+            const double vload = v0 + r_load * i_need;
+            return fail(res, CornerStatus::no_regulation,
+                        "the supply " + fmt(vin, Dimension::voltage) + " cannot drive " +
+                            fmt(i_need, Dimension::current) + " through the load (" +
+                            fmt(vload, Dimension::voltage) + " at that current) and the " +
+                            fmt(on.r, Dimension::resistance) +
+                            " of the switch, sense resistor, winding and load: the on-interval "
+                            "current tends to " +
+                            fmt(std::max(0.0, i_reach), Dimension::current) + ", below the " +
+                            (hysteretic ? "upper threshold" : "target"));
+        }
+        if (!(off.v(hysteretic ? i_lo : 0.0) < 0.0))
+            return fail(res, CornerStatus::no_regulation,
+                        "the load and diode voltage cannot bring the inductor current down to the "
+                        "lower threshold " + fmt(i_lo, Dimension::current));
+
+        Inductance ind{l, c.l_scale, true, l_eff};
+        if (hysteretic) {
+            const double la = l.inductance(lin_lo, c.l_scale);
+            const double lb = l.inductance(lin_hi, c.l_scale);
+            ind.flat = std::abs(la - lb) <= flat_inductance * std::max(la, lb);
+            ind.l_flat = ind.flat ? l.inductance(0.5 * (lin_lo + lin_hi), c.l_scale) : 0.0;
+            w = hysteretic_wave(on, off, i_lo, i_hi, td, ind);
+        } else {
+            const PwmInductance pl = pwm_inductance(l, c.l_scale, on, off, lin_lo, lin_hi);
+            on.l = pl.l_on;
+            off.l = pl.l_off;
+            // The charge correction enters relaxed (half steps): fed back at once it makes the
+            // outer fixed point oscillate deep in the roll-off.
+            dq_used = 0.5 * (dq_used + pl.dq_on + pl.dq_off);
+            const double share_on = pl.dq_on + pl.dq_off != 0.0
+                                        ? pl.dq_on / (pl.dq_on + pl.dq_off) : 0.5;
+            const double target_lin = target - dq_used / period;
+            double duty = 0.0;
+            // First guess from the averaged model: I·(R1·D + R2·(1 − D)) = E1·D + E2·(1 − D).
+            double guess =
+                duty_prev > 0.0
+                    ? duty_prev
+                    : (target * off.r - off.e) / ((on.e - off.e) - target * (on.r - off.r));
+            if (!std::isfinite(guess)) guess = 0.5;
+            const double step = duty_prev > 0.0 ? 1e-3 : 0.02;
+            if (!solve_duty(on, off, period, target_lin, std::clamp(guess, 1e-3, 0.999), step,
+                            duty))
+                return fail(res, CornerStatus::no_regulation,
+                            "no duty cycle below 100 % gives " + fmt(target, Dimension::current) +
+                                " from " + fmt(vin, Dimension::voltage));
+            w = pwm_wave(on, off, period, duty, true);
+            w.q_on += share_on * dq_used;
+            w.q_off += (1.0 - share_on) * dq_used;
+            w.q2_on += pl.dq2_on;
+            w.q2_off += pl.dq2_off;
+            two_state = false;
+            if (capacitor && !w.dcm) {
+                const double den = r_load + cap_esr;
+                const Output2 o{r_load / den, r_load * cap_esr / den, cap_esr * v0 / den, r_load, v0};
+                auto lin = [&](double e, double rs, double lx) {
+                    return Lin2{-(rs + o.beta) / lx,          -o.alpha / lx,
+                                (1.0 - o.beta / r_load) / cap_c, -o.alpha / (r_load * cap_c),
+                                (e - o.gamma) / lx,              (v0 - o.gamma) / (r_load * cap_c)};
+                };
+                const Lin2 a_on = lin(vin, ron + r_sense + dcr, on.l);
+                const Lin2 a_off = lin(-vd0, r_sense + dcr + rd, off.l);
+                auto g2 = [&](double dd) {
+                    const Wave2 x = pwm_wave2(a_on, a_off, o, period, dd, false);
+                    return (x.q_on + x.q_off) / period - target_lin;
+                };
+                double da = std::max(d_min, duty - 0.02), db = std::min(d_max, duty + 0.02);
+                double fa = g2(da), fb = g2(db);
+                for (int k = 0; k < 8 && fa > 0.0 && da > d_min; ++k) fa = g2(da = std::max(d_min, da - 0.05));
+                for (int k = 0; k < 8 && fb < 0.0 && db < d_max; ++k) fb = g2(db = std::min(d_max, db + 0.05));
+                if (fa <= 0.0 && fb >= 0.0) {
+                    const double d2 = brent_root(g2, da, db, fa, fb, 1e-13, 1e-10 * target, 100);
+                    const Wave2 x = pwm_wave2(a_on, a_off, o, period, d2, true);
+                    if (x.ok && x.i_peak > x.i0) {
+                        duty = d2;
+                        two_state = true;
+                        w.i_valley = x.i0;
+                        w.i_peak = x.i_peak;
+                        w.t_on = d2 * period;
+                        w.t_off = period - w.t_on;
+                        w.t_idle = 0.0;
+                        w.q_on = x.q_on + share_on * dq_used;
+                        w.q2_on = x.q2_on + pl.dq2_on;
+                        w.q_off = x.q_off + (1.0 - share_on) * dq_used;
+                        w.q2_off = x.q2_off + pl.dq2_off;
+                        load_pp2 = x.load_max - x.load_min;
+                        load_q2_2 = x.load_q2 / period;
+                        cap_q2_2 = x.cap_q2 / period;
+                    }
+                }
+            }
+            duty_prev = duty;
+        }
+
+        const double tp = w.period();
+        if (!(tp > 0.0) || !std::isfinite(tp))
+            return fail(res, CornerStatus::no_convergence,
+                        "the switching period came out as " + fmt(tp, Dimension::time));
+        const double f = 1.0 / tp;
+        const double i_avg = (w.q_on + w.q_off) * f;
+        const double i_rms2 = (w.q2_on + w.q2_off) * f;
+        const double rip2 = std::max(0.0, i_rms2 - i_avg * i_avg);
+
+        // Diode conduction energy: composite Simpson over the diode's current range, ∫V_f·i dt =
+        // ∫V_f(i)·i·L(i)/|v_L(i)| di (the off interval is monotone in current).
+        {
+            double sum = 0.0;
+            for (int k = 0; k < 5; ++k) {
+                const double i = node[k];
+                const double lk = hysteretic ? ind.at(i) : l.inductance(i, c.l_scale);
+                const double vl = -off.v(i);
+                const double wk = (k == 0 || k == 4) ? 1.0 : (k % 2 == 1 ? 4.0 : 2.0);
+                sum += wk * vnode[k] * i * lk / vl;
+            }
+            e_cond = std::max(0.0, sum * h / 3.0);
+        }
+
+        // Heating of the parts.
+        copper = dcr * i_avg * i_avg + l.r_ac(f, t_l, c.dcr_max) * rip2;
+        const double ripple = w.i_peak - w.i_valley;
+        // The core loss does not depend on temperature and hardly moves between passes: it is
+        // recomputed only when ripple, frequency or duty moved by more than 1e-4 (and once more
+        // exactly after convergence).
+        const double duty_now = w.t_on * f;
+        if (core_ripple < 0.0 || std::abs(ripple - core_ripple) > 1e-4 * ripple ||
+            std::abs(f - core_f) > 1e-4 * f || std::abs(duty_now - core_duty) > 1e-4) {
+            core = core_loss(l, w);
+            core_ripple = ripple;
+            core_f = f;
+            core_duty = duty_now;
+        }
+        leak = diode.leakage(vin, tj) * vin * duty_now;
+        if (w.t_idle > 0.0 && v0 > 0.0) leak += diode.leakage(v0, tj) * v0 * w.t_idle * f;
+        const double p_cond = e_cond * f;
+        t_l_new = amb + l.rth * (copper + core);
+        tj_new = amb + diode.rth_ja * (p_cond + leak);
+
+        const double dl = t_l_new - t_l;
+        const double dj = tj_new - tj;
+        const bool states_settled =
+            std::abs(w.i_valley - lin_lo) <= tol_i && std::abs(w.i_peak - lin_hi) <= tol_i &&
+            std::abs(i_avg - i_avg_prev) <= tol_i &&
+            (!capacitor || std::abs(f - f_prev) <= 1e-6 * f);
+        if (std::abs(dl) < temperature_tol && std::abs(dj) < temperature_tol && states_settled) {
+            converged = true;
+            break;
+        }
+
+        // Runaway: far beyond any rating, with the feedback that drives it.
+        if (tj_new > diode.tj_max + diode_runaway_margin && leak > p_cond)
+            return fail(res, CornerStatus::thermal_runaway,
+                        "thermal runaway of the diode: its reverse leakage at " +
+                            fmt(vin, Dimension::voltage) +
+                            " grows with temperature faster than the junction sheds heat (" +
+                            fmt(leak, Dimension::power) + " of leakage loss with the junction past " +
+                            fmt(diode.tj_max + diode_runaway_margin, Dimension::temperature) +
+                            "; rating " + fmt(diode.tj_max, Dimension::temperature) + ")");
+        if (t_l_new > l.t_max + inductor_runaway_margin)
+            return fail(res, CornerStatus::thermal_runaway,
+                        "thermal runaway of the inductor: its losses (" +
+                            fmt(copper + core, Dimension::power) + ") heat it past " +
+                            fmt(l.t_max + inductor_runaway_margin, Dimension::temperature) +
+                            " with no steady temperature in reach (rating " +
+                            fmt(l.t_max, Dimension::temperature) + ")");
+
+        // Damped update: halve the step when the temperature overshoots back and forth.
+        auto overshoots = [](double step, double step_prev) {
+            return std::abs(step) > temperature_tol && step * step_prev < 0.0 &&
+                   std::abs(step) > 0.5 * std::abs(step_prev);
+        };
+        if (overshoots(dl, last_dl) || overshoots(dj, last_dj)) omega = std::max(0.25, 0.5 * omega);
+        // Losses are never negative: neither part can sit below ambient.
+        t_l = std::max(amb, t_l + thermal_step(dl, last_dl, omega));
+        tj = std::max(amb, tj + thermal_step(dj, last_dj, omega));
+        if (!std::isfinite(t_l) || !std::isfinite(tj)) break;
+        lin_lo = w.i_valley;
+        lin_hi = w.i_peak;
+        i_avg_prev = i_avg;
+        f_prev = f;
+    }
+    (void)iterations;
+
+    if (!converged) {
+        if (tj_new > tj && leak > 0.5 * (tj_new - amb) / std::max(diode.rth_ja, 1e-12))
+            return fail(res, CornerStatus::thermal_runaway,
+                        "thermal runaway of the diode: the junction keeps heating through its "
+                        "reverse leakage at " + fmt(vin, Dimension::voltage) + " (" +
+                            fmt(tj_new, Dimension::temperature) + " and rising, rating " +
+                            fmt(diode.tj_max, Dimension::temperature) + ")");
+        return fail(res, CornerStatus::no_convergence,
+                    "the thermal and electrical fixed point did not settle in " +
+                        std::to_string(max_iterations) + " iterations (inductor at " +
+                        fmt(t_l_new, Dimension::temperature) + ", junction at " +
+                        fmt(tj_new, Dimension::temperature) + ")");
+    }
+
+    // --- figures of the converged cycle -------------------------------------------------------
+    core = core_loss(l, w);
+    const double tp = w.period();
+    const double f = 1.0 / tp;
+    const double i_avg = (w.q_on + w.q_off) * f;
+    const double i_rms2 = (w.q2_on + w.q2_off) * f;
+    const double rip2 = std::max(0.0, i_rms2 - i_avg * i_avg);
+    const double duty = w.t_on * f;
+
+    res.duty = duty;
+    res.f_sw = f;
+    res.t_on = w.t_on;
+    res.t_off = w.t_off;
+    res.il_avg = i_avg;
+    res.il_peak = w.i_peak;
+    res.il_valley = w.i_valley;
+    res.il_ripple_pp = w.i_peak - w.i_valley;
+    res.il_rms = std::sqrt(std::max(0.0, i_rms2));
+    res.load_i_avg = i_avg; // the capacitor carries no DC
+    res.load_ripple_pp = two_state ? load_pp2 : path.k_load * res.il_ripple_pp;
+    res.id_avg = w.q_off * f;
+    res.id_rms = std::sqrt(std::max(0.0, w.q2_off * f));
+    res.isw_rms = std::sqrt(std::max(0.0, w.q2_on * f));
+    res.isw_avg = w.q_on * f;
+    res.dcm = w.dcm;
+    res.t_inductor = t_l_new;
+    res.tj_diode = tj_new;
+    res.l_at_peak = l.inductance(w.i_peak, c.l_scale);
+    res.regulation_error = (i_avg - target) / target;
+
+    Losses& p = res.losses;
+    // Copper: DCR(T)·I² for the DC part, R_ac(f, T)·I_ripple,rms² for the ripple (domain notes).
+    p.inductor_copper = copper;
+    // Core: iGSE with the flux swing estimated from the current ripple (parts/inductor_model.cpp).
+    p.inductor_core = core;
+    // Conduction: the average of V_f(i)·i over the diode's interval, not V_f(I_avg)·I_avg.
+    p.diode_conduction = e_cond * f;
+    // Switching of the diode: its junction charge ∫v·C(v)dv at V_R = Vin, lost each cycle when the
+    // switch charges it, plus recovery Q_rr(i_valley)·V_R·f (Erickson & Maksimović 2nd ed.
+    // §4.3.2). Both are dissipated mostly in the switch but follow from the choice of diode, so
+    // they are booked here.
+    p.diode_switching = (diode.capacitive_energy(vin) + diode.recovery_charge(w.i_valley) * vin) * f;
+    // Leakage: I_R(V_R, Tj)·V_R while the switch is on (and at the load voltage while idle).
+    p.diode_leakage = leak;
+    // Switch conduction: R_on(T)·I_sw,rms².
+    p.switch_conduction = ron * res.isw_rms * res.isw_rms;
+    // Switch transitions, linearised clamped-inductive waveforms (Mohan, Undeland, Robbins 3rd ed.
+    // §2-7): ½·V·(I_on·t_r + I_off·t_f)·f with turn-on at the valley and turn-off at the peak;
+    // gate charge Q_g·V_drive·f and output capacitance ½·C_oss·V²·f (common practice).
+    p.switch_switching =
+        0.5 * vin * (w.i_valley * d.sw.rise_time + w.i_peak * d.sw.fall_time) * f +
+        d.sw.gate_charge * d.sw.drive_voltage * f + 0.5 * d.sw.output_capacitance * vin * vin * f;
+    p.sense = r_sense * i_rms2;
+    p.capacitor = two_state ? cap_esr * cap_q2_2 : cap_esr * path.k_cap2 * rip2;
+    p.total = p.inductor_copper + p.inductor_core + p.diode_conduction + p.diode_switching +
+              p.diode_leakage + p.switch_conduction + p.switch_switching + p.sense + p.capacitor;
+
+    // Output power: the average of v_load·i_load = v0·I + r·I_load,rms².
+    res.p_out = two_state ? v0 * i_avg + r_load * load_q2_2
+                          : v0 * i_avg + r_load * (i_avg * i_avg + path.k_load * path.k_load * rip2);
+    // Supply power: the waveform's vin·I_sw,avg plus what the waveform does not carry.
+    const double outside = (p.inductor_copper - dcr * i_rms2) + p.inductor_core + p.diode_switching +
+                           p.diode_leakage + p.switch_switching;
+    res.p_in = vin * res.isw_avg + outside;
+    const double denom = res.p_out + p.total;
+    res.efficiency = denom > 0.0 ? std::clamp(res.p_out / denom, 0.0, 1.0) : 0.0;
+    return res;
+}
+
+Setting corner_setting(const design::Design& d, const Corner& c, const Setting& s) {
+    Setting out = s;
+    if (d.control.mode == design::ControlMode::hysteretic && d.control.band_is_fraction) {
+        const double target = loads::target_current(d.load);
+        if (target > 0.0 && c.point.current > 0.0) out.band = s.band * c.point.current / target;
+    }
+    return out;
+}
+
+} // namespace coilsieve::converter

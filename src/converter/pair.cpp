@@ -1,0 +1,213 @@
+// One inductor-diode pair on a design: every corner, then every limit at every corner as a
+// margin (>= 0 holds). Messages are written only for broken limits.
+
+#include "converter/evaluate.hpp"
+#include "units/quantity.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <string>
+#include <string_view>
+
+namespace coilsieve::converter {
+
+namespace {
+
+using units::Dimension;
+
+std::string fmt(double v, Dimension d) { return units::format(v, d); }
+
+std::string at(const std::string& corner) {
+    return corner.empty() ? std::string() : " at corner \"" + corner + "\"";
+}
+
+class Checker {
+public:
+    explicit Checker(PairEvaluation& e) : e_(e) {}
+
+    // value <= bound
+    template <class Message>
+    void upper(std::string_view limit, const std::string& corner, double value, double bound,
+               Message&& message) {
+        const double margin = bound != 0.0 ? (bound - value) / std::abs(bound) : bound - value;
+        add(limit, corner, value, bound, margin, message);
+    }
+    // value >= bound
+    template <class Message>
+    void lower(std::string_view limit, const std::string& corner, double value, double bound,
+               Message&& message) {
+        const double margin = bound != 0.0 ? (value - bound) / std::abs(bound) : value - bound;
+        add(limit, corner, value, bound, margin, message);
+    }
+    template <class Message>
+    void add(std::string_view limit, const std::string& corner, double value, double bound,
+             double margin, Message&& message) {
+        LimitCheck k;
+        k.limit = std::string(limit);
+        k.corner = corner;
+        k.value = std::isfinite(value) ? value : 0.0;
+        k.bound = bound;
+        k.margin = std::isfinite(margin) ? margin : -1.0;
+        if (k.margin < 0.0) {
+            k.message = message();
+            e_.violations.push_back(k);
+        }
+        e_.checks.push_back(std::move(k));
+    }
+
+private:
+    PairEvaluation& e_;
+};
+
+std::string name_part(std::string reason, const parts::Inductor& l, const parts::Diode& diode) {
+    auto swap = [&](std::string_view from, const std::string& to) {
+        const auto pos = reason.find(from);
+        if (pos != std::string::npos) reason.replace(pos, from.size(), to);
+    };
+    swap("of the diode", "of diode \"" + diode.id + "\"");
+    swap("of the inductor", "of inductor \"" + l.id + "\"");
+    return reason;
+}
+
+} // namespace
+
+PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
+                             const parts::Diode& diode, const Setting& s) {
+    const parts::InductorModel lm = parts::make_model(l);
+    const parts::DiodeModel dm = parts::make_model(diode);
+    const std::vector<Corner> corners = make_corners(d, l.tolerance);
+
+    PairEvaluation e;
+    e.corners.reserve(corners.size());
+    for (const Corner& c : corners)
+        e.corners.push_back(evaluate_corner(d, lm, dm, c, corner_setting(d, c, s)));
+
+    const design::Limits& lim = d.limits;
+    Checker check(e);
+    const double isat_bound = lim.isat_derating * l.isat;
+    const double t_l_bound = lim.t_inductor_max ? std::min(lm.t_max, *lim.t_inductor_max) : lm.t_max;
+    const double tj_bound = lim.tj_max ? std::min(dm.tj_max, *lim.tj_max) : dm.tj_max;
+    const double vr_bound = lim.vrrm_derating * diode.vrrm;
+    const double id_bound = lim.diode_current_derating * diode.if_avg;
+    const std::string pct_isat = fmt(lim.isat_derating, Dimension::ratio);
+
+    // Reverse voltage: once, at the highest supply (it does not depend on the corner's result).
+    if (!corners.empty()) {
+        const auto worst = std::max_element(corners.begin(), corners.end(),
+                                            [](const Corner& a, const Corner& b) { return a.vin < b.vin; });
+        const double vr = worst->vin;
+        check.upper("vrrm", worst->name, vr, vr_bound, [&] {
+            return "diode reverse voltage " + fmt(vr, Dimension::voltage) + " exceeds " +
+                   fmt(lim.vrrm_derating, Dimension::ratio) + " of its Vrrm (" +
+                   fmt(vr_bound, Dimension::voltage) + ")" + at(worst->name);
+        });
+    }
+
+    for (std::size_t k = 0; k < corners.size(); ++k) {
+        const Corner& c = corners[k];
+        const CornerResult& r = e.corners[k];
+        const std::string& cn = r.name;
+        if (r.status != CornerStatus::ok) {
+            const bool regulation = r.status == CornerStatus::no_regulation;
+            const std::string_view limit = r.status == CornerStatus::thermal_runaway ? "thermal_runaway"
+                                           : regulation                            ? "regulation"
+                                                                                   : "convergence";
+            const double margin = regulation && r.regulation_headroom < 0.0 ? r.regulation_headroom : -1.0;
+            check.add(limit, cn, r.regulation_headroom, 0.0, margin,
+                      [&] { return name_part(r.reason, l, diode) + at(cn); });
+            continue;
+        }
+        check.lower("regulation", cn, r.regulation_headroom, 0.0, [&] {
+            return "the supply cannot hold the target current" + at(cn);
+        });
+        if (lim.load_ripple) {
+            const double ripple = r.load_ripple_pp / c.point.current;
+            check.upper("load_ripple", cn, ripple, *lim.load_ripple, [&] {
+                return "load ripple " + fmt(ripple, Dimension::ratio) + " p-p (" +
+                       fmt(r.load_ripple_pp, Dimension::current) + ") exceeds the limit " +
+                       fmt(*lim.load_ripple, Dimension::ratio) + at(cn);
+            });
+        }
+        check.lower("f_sw_min", cn, r.f_sw, lim.f_sw_min, [&] {
+            return "switching frequency " + fmt(r.f_sw, Dimension::frequency) +
+                   " is below the minimum " + fmt(lim.f_sw_min, Dimension::frequency) + at(cn);
+        });
+        if (lim.f_sw_max)
+            check.upper("f_sw_max", cn, r.f_sw, *lim.f_sw_max, [&] {
+                return "switching frequency " + fmt(r.f_sw, Dimension::frequency) +
+                       " is above the maximum " + fmt(*lim.f_sw_max, Dimension::frequency) + at(cn);
+            });
+        check.upper("isat", cn, r.il_peak, isat_bound, [&] {
+            return "peak inductor current " + fmt(r.il_peak, Dimension::current) + " exceeds " +
+                   pct_isat + " of Isat (" + fmt(isat_bound, Dimension::current) + ")" + at(cn);
+        });
+        check.upper("inductor_rms", cn, r.il_rms, l.irms, [&] {
+            return "inductor RMS current " + fmt(r.il_rms, Dimension::current) +
+                   " exceeds its rating " + fmt(l.irms, Dimension::current) + at(cn);
+        });
+        check.upper("t_inductor", cn, r.t_inductor, t_l_bound, [&] {
+            return "inductor hot spot " + fmt(r.t_inductor, Dimension::temperature) +
+                   " exceeds " + fmt(t_l_bound, Dimension::temperature) + at(cn);
+        });
+        if (diode.if_avg > 0.0)
+            check.upper("diode_current", cn, r.id_avg, id_bound, [&] {
+                return "diode average current " + fmt(r.id_avg, Dimension::current) + " exceeds " +
+                       fmt(lim.diode_current_derating, Dimension::ratio) + " of its rating (" +
+                       fmt(id_bound, Dimension::current) + ")" + at(cn);
+            });
+        check.upper("tj_max", cn, r.tj_diode, tj_bound, [&] {
+            return "diode junction " + fmt(r.tj_diode, Dimension::temperature) + " exceeds " +
+                   fmt(tj_bound, Dimension::temperature) + at(cn);
+        });
+    }
+
+    // Nominal figures: the nominal corner, or the time-weighted charge profile.
+    double w_sum = 0.0, loss = 0.0, p_out = 0.0;
+    std::string nominal_name;
+    int nominal_count = 0;
+    for (std::size_t k = 0; k < corners.size(); ++k) {
+        if (!corners[k].nominal) continue;
+        ++nominal_count;
+        nominal_name = corners[k].name;
+        const CornerResult& r = e.corners[k];
+        if (r.status != CornerStatus::ok) continue; // already a violation; leave it out of the sums
+        const double w = corners[k].weight > 0.0 ? corners[k].weight : 0.0;
+        w_sum += w;
+        loss += w * r.losses.total;
+        p_out += w * r.p_out;
+    }
+    if (w_sum > 0.0) {
+        e.loss_nominal = loss / w_sum;
+        e.efficiency_nominal = p_out + loss > 0.0 ? p_out / (p_out + loss) : 0.0;
+    }
+    if (nominal_count > 1) nominal_name = "charge profile (time-weighted)";
+
+    if (lim.efficiency_min)
+        check.lower("efficiency_min", nominal_name, e.efficiency_nominal, *lim.efficiency_min, [&] {
+            return "efficiency " + fmt(e.efficiency_nominal, Dimension::ratio) +
+                   " is below the minimum " + fmt(*lim.efficiency_min, Dimension::ratio) +
+                   at(nominal_name);
+        });
+    if (lim.height_max) {
+        check.upper("height_max", "", l.height, *lim.height_max, [&] {
+            return "inductor \"" + l.id + "\" is " + fmt(l.height, Dimension::length) +
+                   " high, above the limit " + fmt(*lim.height_max, Dimension::length);
+        });
+        check.upper("height_max", "", diode.height, *lim.height_max, [&] {
+            return "diode \"" + diode.id + "\" is " + fmt(diode.height, Dimension::length) +
+                   " high, above the limit " + fmt(*lim.height_max, Dimension::length);
+        });
+    }
+    if (lim.footprint_max) {
+        const double area = l.footprint() + diode.footprint();
+        check.upper("footprint_max", "", area, *lim.footprint_max, [&] {
+            return "the two parts take " + fmt(area, Dimension::area) +
+                   " of board, above the limit " + fmt(*lim.footprint_max, Dimension::area);
+        });
+    }
+
+    e.feasible = e.violations.empty();
+    return e;
+}
+
+} // namespace coilsieve::converter

@@ -1,0 +1,243 @@
+// Corners of a design and the limits of a pair, with their margins.
+
+#include "converter/evaluate.hpp"
+#include "converter/json.hpp"
+
+#include <gtest/gtest.h>
+
+#include <algorithm>
+#include <cmath>
+#include <set>
+#include <string>
+
+namespace coilsieve::converter {
+namespace {
+
+parts::Inductor inductor() {
+    parts::Inductor l;
+    l.id = "L-TEST-47";
+    l.source = "test";
+    l.family = parts::InductorFamily::shielded_drum_ferrite;
+    l.inductance = 47e-6;
+    l.tolerance = 0.2;
+    l.dcr_typ = 0.08;
+    l.dcr_max = 0.1;
+    l.isat = 2.0;
+    l.sat_drop = 0.3;
+    l.irms = 1.8;
+    l.shape = parts::SaturationShape::hard;
+    l.core = {1.5, 1.4, 2.6};
+    l.core_volume = 0.3e-6;
+    l.length = 6e-3;
+    l.width = 6e-3;
+    l.height = 3e-3;
+    return l;
+}
+
+parts::Diode diode() {
+    parts::Diode d;
+    d.id = "D-TEST-40";
+    d.source = "test";
+    d.technology = parts::DiodeTechnology::schottky;
+    d.vrrm = 40.0;
+    d.if_avg = 2.0;
+    d.spice = parts::SpiceForward{2e-6, 1.05, 0.04, 0.69, 2.0};
+    d.spice_cap = parts::SpiceCapacitance{150e-12, 0.6, 0.5};
+    d.ir = 20e-6;
+    d.ir_vr = 40.0;
+    d.rth_ja = 100.0;
+    d.tj_max = 423.15;
+    d.package = "SMA";
+    d.length = 4.3e-3;
+    d.width = 2.6e-3;
+    d.height = 2.4e-3;
+    return d;
+}
+
+design::Design led_design() {
+    design::Design d;
+    d.name = "three white LEDs";
+    d.supply = {20.0, 24.0, 28.0};
+    d.load = loads::LedString{3, 3.0, 0.5, 0.7, -2e-3};
+    d.sense_resistor = 0.3;
+    d.control.mode = design::ControlMode::hysteretic;
+    d.control.band = 0.3;
+    d.control.band_is_fraction = true;
+    d.control.delay = 50e-9;
+    d.ambient.max = 328.15;
+    d.ambient.min = 273.15;
+    return d;
+}
+
+TEST(Corners, LedDesignHasSupplyToleranceAndColdCorners) {
+    const auto corners = make_corners(led_design(), 0.2);
+    std::set<std::string> names;
+    int nominal = 0;
+    for (const auto& c : corners) {
+        names.insert(c.name);
+        nominal += c.nominal ? 1 : 0;
+    }
+    EXPECT_EQ(names.size(), corners.size()); // unique names
+    EXPECT_EQ(nominal, 1);
+    EXPECT_TRUE(names.count("vin-nom hot"));
+    EXPECT_TRUE(names.count("vin-min hot L-20%"));
+    EXPECT_TRUE(names.count("vin-max hot L+20%"));
+    EXPECT_TRUE(names.count("vin-min cold L-20%"));
+    EXPECT_GE(corners.size(), 6u);
+    EXPECT_LE(corners.size(), 12u);
+    for (const auto& c : corners) {
+        if (c.name == "vin-max hot L-20%") {
+            EXPECT_DOUBLE_EQ(c.l_scale, 0.8);
+            EXPECT_DOUBLE_EQ(c.vin, 28.0);
+            EXPECT_TRUE(c.dcr_max);
+        }
+        if (c.name == "vin-min cold L-20%") {
+            // White LEDs lose about 2–4 mV/K (Khanna, Fundamentals of Solid-State Lighting, CRC
+            // 2014, ch. 14): 55 K colder at −2 mV/K per LED is 0.33 V more for three.
+            const auto hot = std::find_if(corners.begin(), corners.end(),
+                                          [](const Corner& k) { return k.name == "vin-nom hot"; });
+            EXPECT_NEAR(c.point.v0 - hot->point.v0, 3 * 2e-3 * 55.0, 1e-9);
+            EXPECT_DOUBLE_EQ(c.ambient, 273.15);
+        }
+    }
+}
+
+TEST(Corners, ChargerProfilePointsCarryTheTimeWeights) {
+    design::Design d = led_design();
+    loads::Battery b;
+    b.chemistry = loads::Chemistry::li_ion;
+    b.cells = 2;
+    b.capacity = 2.0 * 3600.0;
+    b.charge_current = 1.0;
+    b.internal_resistance = 0.1;
+    d.load = b;
+    d.ambient.min.reset();
+    const auto corners = make_corners(d, 0.2);
+    double w = 0.0;
+    int nominal = 0;
+    bool cc_end_low_supply = false;
+    for (const auto& c : corners) {
+        if (c.nominal) {
+            ++nominal;
+            w += c.weight;
+            EXPECT_DOUBLE_EQ(c.vin, 24.0);
+        }
+        if (c.name == "cc-end vin-min hot L-20%") cc_end_low_supply = true;
+    }
+    EXPECT_GT(nominal, 1);
+    EXPECT_NEAR(w, 1.0, 1e-12);
+    EXPECT_TRUE(cc_end_low_supply);
+    EXPECT_LE(corners.size(), 12u);
+}
+
+TEST(Pair, AComfortablePairIsFeasible) {
+    const auto d = led_design();
+    const auto e = evaluate_pair(d, inductor(), diode(), default_setting(d));
+    for (const auto& v : e.violations) ADD_FAILURE() << v.message;
+    EXPECT_TRUE(e.feasible);
+    ASSERT_FALSE(e.corners.empty());
+    for (const auto& c : e.corners) EXPECT_EQ(c.status, CornerStatus::ok) << c.reason;
+    for (const auto& k : e.checks) EXPECT_GE(k.margin, 0.0) << k.limit << " " << k.corner;
+    // The loss objective is the nominal corner's total.
+    const auto nom = std::find_if(e.corners.begin(), e.corners.end(),
+                                  [](const CornerResult& r) { return r.name == "vin-nom hot"; });
+    ASSERT_NE(nom, e.corners.end());
+    EXPECT_DOUBLE_EQ(e.loss_nominal, nom->losses.total);
+    EXPECT_GT(e.efficiency_nominal, 0.5);
+    EXPECT_LT(e.efficiency_nominal, 1.0);
+    // Every corner got the isat check.
+    const auto isat_checks = std::count_if(e.checks.begin(), e.checks.end(),
+                                           [](const LimitCheck& k) { return k.limit == "isat"; });
+    EXPECT_EQ(static_cast<std::size_t>(isat_checks), e.corners.size());
+}
+
+TEST(Pair, SaturationLimitBreaksWithTheDocumentedMargin) {
+    const auto d = led_design();
+    auto l = inductor();
+    l.isat = 0.85; // 80 % of it is 0.68 A, below the 0.7 A target
+    const auto e = evaluate_pair(d, l, diode(), default_setting(d));
+    EXPECT_FALSE(e.feasible);
+    int broken = 0;
+    for (const auto& v : e.violations) {
+        if (v.limit != "isat") continue;
+        ++broken;
+        const auto r = std::find_if(e.corners.begin(), e.corners.end(),
+                                    [&](const CornerResult& c) { return c.name == v.corner; });
+        ASSERT_NE(r, e.corners.end());
+        const double bound = 0.8 * 0.85;
+        EXPECT_DOUBLE_EQ(v.bound, bound);
+        EXPECT_DOUBLE_EQ(v.value, r->il_peak);
+        EXPECT_NEAR(v.margin, (bound - r->il_peak) / bound, 1e-12); // upper-limit margin
+        EXPECT_NE(v.message.find("peak inductor current"), std::string::npos) << v.message;
+        EXPECT_NE(v.message.find("of Isat"), std::string::npos) << v.message;
+        EXPECT_NE(v.message.find(v.corner), std::string::npos) << v.message;
+    }
+    EXPECT_EQ(static_cast<std::size_t>(broken), e.corners.size());
+}
+
+TEST(Pair, ReverseVoltageHeightAndEfficiencyLimits) {
+    auto d = led_design();
+    d.limits.height_max = 2.5e-3;          // the 3 mm inductor is too tall, the diode fits
+    d.limits.efficiency_min = 0.995;       // no real pair reaches this
+    auto dd = diode();
+    dd.vrrm = 30.0;                        // 28 V > 0.8 × 30 V
+    const auto e = evaluate_pair(d, inductor(), dd, default_setting(d));
+    EXPECT_FALSE(e.feasible);
+    std::set<std::string> broken;
+    for (const auto& v : e.violations) broken.insert(v.limit);
+    EXPECT_TRUE(broken.count("vrrm"));
+    EXPECT_TRUE(broken.count("height_max"));
+    EXPECT_TRUE(broken.count("efficiency_min"));
+    for (const auto& v : e.violations) {
+        if (v.limit == "vrrm") {
+            EXPECT_DOUBLE_EQ(v.value, 28.0);
+            EXPECT_DOUBLE_EQ(v.bound, 24.0);
+            EXPECT_NEAR(v.margin, (24.0 - 28.0) / 24.0, 1e-12);
+        }
+        if (v.limit == "height_max") {
+            EXPECT_EQ(v.corner, "");
+            EXPECT_NE(v.message.find("L-TEST-47"), std::string::npos) << v.message;
+        }
+        if (v.limit == "efficiency_min") {
+            EXPECT_NEAR(v.margin, (e.efficiency_nominal - 0.995) / 0.995, 1e-12); // lower limit
+        }
+    }
+    const auto heights = std::count_if(e.violations.begin(), e.violations.end(),
+                                       [](const LimitCheck& k) { return k.limit == "height_max"; });
+    EXPECT_EQ(heights, 1); // only the inductor
+}
+
+TEST(Pair, LostRegulationAtLowSupplyIsAViolationWithAReason) {
+    auto d = led_design();
+    d.supply = {9.0, 24.0, 28.0}; // three LEDs need about 9.3 V at 0.7 A
+    const auto e = evaluate_pair(d, inductor(), diode(), default_setting(d));
+    EXPECT_FALSE(e.feasible);
+    bool found = false;
+    for (const auto& v : e.violations) {
+        if (v.limit != "regulation") continue;
+        found = true;
+        EXPECT_LT(v.margin, 0.0);
+        EXPECT_NE(v.message.find("9.00 V"), std::string::npos) << v.message;
+        EXPECT_NE(v.message.find("vin-min"), std::string::npos) << v.message;
+    }
+    EXPECT_TRUE(found);
+}
+
+TEST(Pair, JsonCarriesTheDocumentedKeys) {
+    const auto d = led_design();
+    const auto e = evaluate_pair(d, inductor(), diode(), default_setting(d));
+    const nlohmann::json j = e.corners.front();
+    for (const char* key :
+         {"name", "vin", "ambient", "duty", "f_sw", "t_on", "t_off", "il_avg", "il_peak",
+          "il_valley", "il_ripple_pp", "il_rms", "load_i_avg", "load_ripple_pp", "id_avg", "id_rms",
+          "isw_rms", "dcm", "losses", "p_out", "efficiency", "t_inductor", "tj_diode"})
+        EXPECT_TRUE(j.contains(key)) << key;
+    for (const char* key : {"inductor_copper", "inductor_core", "diode_conduction",
+                            "diode_switching", "diode_leakage", "switch_conduction",
+                            "switch_switching", "sense", "total"})
+        EXPECT_TRUE(j["losses"].contains(key)) << key;
+    EXPECT_TRUE(j["f_sw"].is_number());
+}
+
+} // namespace
+} // namespace coilsieve::converter
