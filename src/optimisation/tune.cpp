@@ -1,1 +1,175 @@
-// placeholder; filled in by the domain's work
+#include "optimisation/tune.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <limits>
+#include <map>
+
+namespace coilsieve::optimisation {
+
+SettingRange fixed_range(Variable v, double value) {
+    return SettingRange{v, value, value, false};
+}
+
+converter::Setting make_setting(const SettingRange& r, const converter::Setting& base,
+                                double value) {
+    converter::Setting s = base;
+    if (r.variable == Variable::band) s.band = value;
+    else s.frequency = value;
+    return s;
+}
+
+const converter::LimitCheck* least_margin(const converter::PairEvaluation& e) {
+    const converter::LimitCheck* best = nullptr;
+    for (const auto& c : e.checks)
+        if (best == nullptr || c.margin < best->margin) best = &c;
+    if (best == nullptr)
+        for (const auto& c : e.violations)
+            if (best == nullptr || c.margin < best->margin) best = &c;
+    return best;
+}
+
+Scorer make_scorer(const parts::Inductor& l, const parts::Diode& diode, const design::Weights& w,
+                   const Scales& s) {
+    return [&l, &diode, w, s](const converter::Setting& setting,
+                              converter::PairEvaluation&& e) {
+        TunedPoint p;
+        p.setting = setting;
+        p.objectives = objectives_of(e, l, diode);
+        p.score = score(p.objectives, w, s);
+        p.evaluation = std::move(e);
+        return p;
+    };
+}
+
+namespace {
+
+constexpr double broken_nan_margin = -1e3; // a NaN margin counts as badly broken
+// COBYLA accepts a constraint met to within its own round-off; aiming at a margin of 1e-6 keeps
+// the points it converges to strictly inside every limit (the evaluation's verdict is strict).
+constexpr double margin_target = 1e-6;
+
+double safe_margin(double m) { return std::isnan(m) ? broken_nan_margin : m; }
+
+// Maps u in [0, 1] to the setting value.
+double from_unit(const SettingRange& r, double u) {
+    u = std::clamp(u, 0.0, 1.0);
+    if (r.log_scale) return r.lo * std::pow(r.hi / r.lo, u);
+    return r.lo + (r.hi - r.lo) * u;
+}
+
+// Constraint vector: one entry per limit name seen in the pre-scan (its worst margin, negated)
+// plus one for any other limit. Feasibility itself is the evaluation's own verdict.
+struct ConstraintMap {
+    std::map<std::string, std::size_t> index;
+
+    void learn(const converter::PairEvaluation& e) {
+        for (const auto& c : e.checks) index.emplace(c.limit, 0);
+        for (const auto& c : e.violations) index.emplace(c.limit, 0);
+        std::size_t i = 0;
+        for (auto& [name, k] : index) k = i++;
+    }
+    std::size_t size() const { return index.size() + 1; }
+
+    std::vector<double> constraints(const converter::PairEvaluation& e) const {
+        std::vector<double> g(size(), -1.0);
+        auto apply = [&](const converter::LimitCheck& c) {
+            auto it = index.find(c.limit);
+            std::size_t k = it == index.end() ? index.size() : it->second;
+            g[k] = std::max(g[k], margin_target - safe_margin(c.margin));
+        };
+        for (const auto& c : e.checks) apply(c);
+        for (const auto& c : e.violations) apply(c);
+        return g;
+    }
+};
+
+double violation(const converter::PairEvaluation& e) {
+    double v = 0.0;
+    for (const auto& c : e.checks) v = std::max(v, -safe_margin(c.margin));
+    for (const auto& c : e.violations) v = std::max(v, -safe_margin(c.margin));
+    if (!e.feasible && v <= 0.0) v = std::numeric_limits<double>::min(); // infeasible for another reason
+    return v;
+}
+
+bool better(const TunedPoint& a, const TunedPoint& b) {
+    if (a.evaluation.feasible != b.evaluation.feasible) return a.evaluation.feasible;
+    if (!a.evaluation.feasible && a.violation != b.violation) return a.violation < b.violation;
+    return a.score < b.score;
+}
+
+} // namespace
+
+TuneResult tune(const SettingRange& range, const converter::Setting& base,
+                const PairEvaluator& evaluate, const Scorer& scorer, const TuneOptions& options) {
+    TuneResult result;
+    bool have_best = false;
+    auto consider = [&](TunedPoint&& p) {
+        ++result.evaluations;
+        if (!std::isfinite(p.score)) p.evaluation.feasible = false;
+        if (!have_best || better(p, result.best)) {
+            result.best = std::move(p);
+            have_best = true;
+        }
+    };
+    auto eval_at = [&](double value) {
+        converter::Setting s = make_setting(range, base, value);
+        TunedPoint p = scorer(s, evaluate(s));
+        p.violation = p.evaluation.feasible ? 0.0 : violation(p.evaluation);
+        return p;
+    };
+
+    const bool fixed = !(range.hi > range.lo);
+    const int k = fixed ? 1 : std::max(2, options.prescan_points);
+    ConstraintMap cmap;
+    double best_u = 0.0;
+    for (int i = 0; i < k; ++i) {
+        const double u = fixed ? 0.0 : static_cast<double>(i) / (k - 1);
+        TunedPoint p = eval_at(from_unit(range, u));
+        cmap.learn(p.evaluation);
+        const bool improves = !have_best || better(p, result.best);
+        consider(std::move(p));
+        if (improves) best_u = u;
+    }
+
+    if (!fixed && options.solver.max_evaluations > 0) {
+        Problem problem;
+        problem.lower = {0.0};
+        problem.upper = {1.0};
+        problem.constraint_count = cmap.size();
+        problem.evaluate = [&](std::span<const double> x) {
+            TunedPoint p = eval_at(from_unit(range, x[0]));
+            PointValue v;
+            v.objective = std::isfinite(p.score) ? p.score : 1e30;
+            v.constraints = cmap.constraints(p.evaluation);
+            v.feasible = p.evaluation.feasible;
+            consider(std::move(p));
+            return v;
+        };
+        SolverOptions so = options.solver;
+        if (so.initial_step <= 0.0) so.initial_step = 0.5 / (k - 1);
+        Solution sol = minimise_cobyla(problem, {best_u}, so);
+        result.status = sol.status;
+        result.solver_ran = true;
+    }
+
+    result.feasible = result.best.evaluation.feasible;
+    if (result.feasible) {
+        if (const auto* b = least_margin(result.best.evaluation)) {
+            result.binding = *b;
+            result.has_binding = true;
+        }
+    } else {
+        const converter::LimitCheck* worst = nullptr;
+        for (const auto& c : result.best.evaluation.violations)
+            if (worst == nullptr || safe_margin(c.margin) < safe_margin(worst->margin)) worst = &c;
+        if (worst == nullptr) worst = least_margin(result.best.evaluation);
+        if (worst != nullptr) {
+            result.binding = *worst;
+            result.has_binding = true;
+        }
+    }
+    return result;
+}
+
+} // namespace coilsieve::optimisation

@@ -1,0 +1,463 @@
+#include "cli/rank.hpp"
+
+#include "design/design_json.hpp"
+#include "report/rank_report.hpp"
+#include "studies/result_json.hpp"
+#include "studies/study_store.hpp"
+#include "studies/why.hpp"
+#include "units/quantity.hpp"
+
+#include <CLI/CLI.hpp>
+#include <algorithm>
+#include <cmath>
+#include <cstdio>
+#include <iostream>
+#include <memory>
+#include <sstream>
+#include <unistd.h>
+
+namespace coilsieve::cli {
+
+namespace u = coilsieve::units;
+
+namespace {
+
+enum class Direction { upper, lower, either };
+
+struct LimitSpec {
+    std::string_view name;
+    u::Dimension dim;
+    Direction dir;
+};
+
+// The design file's limit names (design.hpp Limits) and their meaning.
+constexpr LimitSpec limit_specs[] = {
+    {"load_ripple", u::Dimension::ratio, Direction::upper},
+    {"f_sw_min", u::Dimension::frequency, Direction::lower},
+    {"f_sw_max", u::Dimension::frequency, Direction::upper},
+    {"isat_derating", u::Dimension::ratio, Direction::upper},
+    {"vrrm_derating", u::Dimension::ratio, Direction::upper},
+    {"diode_current_derating", u::Dimension::ratio, Direction::upper},
+    {"tj_max", u::Dimension::temperature, Direction::upper},
+    {"t_inductor_max", u::Dimension::temperature, Direction::upper},
+    {"height_max", u::Dimension::length, Direction::upper},
+    {"footprint_max", u::Dimension::area, Direction::upper},
+    {"efficiency_min", u::Dimension::ratio, Direction::lower},
+};
+
+std::string trim(std::string_view s) {
+    const auto b = s.find_first_not_of(" \t");
+    if (b == std::string_view::npos) return "";
+    const auto e = s.find_last_not_of(" \t");
+    return std::string(s.substr(b, e - b + 1));
+}
+
+std::string fmt(double v, u::Dimension d) {
+    return u::format(v, d);
+}
+
+} // namespace
+
+std::vector<std::string> limit_names() {
+    std::vector<std::string> v;
+    for (const auto& s : limit_specs)
+        v.emplace_back(s.name);
+    for (const char* s :
+         {"height<=", "footprint<=", "f_sw<=", "f_sw>=", "efficiency>=", "tj<=", "ripple<="})
+        v.emplace_back(s);
+    return v;
+}
+
+void apply_limit(design::Design& d, std::string_view spec) {
+    const std::string text(spec);
+    const auto pos = text.find_first_of("<>=");
+    if (pos == std::string::npos || pos == 0)
+        throw UsageError("--limit \"" + text +
+                         "\": write NAME<=VALUE or NAME>=VALUE, e.g. "
+                         "height<=3mm or efficiency>=90%");
+    std::string name = trim(text.substr(0, pos));
+    Direction op = Direction::either;
+    std::size_t vpos = pos + 1;
+    if (text[pos] == '<' || text[pos] == '>') {
+        op = text[pos] == '<' ? Direction::upper : Direction::lower;
+        if (vpos < text.size() && text[vpos] == '=') ++vpos;
+    }
+    const std::string value = trim(text.substr(vpos));
+    // Short forms.
+    if (name == "height")
+        name = "height_max";
+    else if (name == "footprint")
+        name = "footprint_max";
+    else if (name == "efficiency")
+        name = "efficiency_min";
+    else if (name == "tj")
+        name = "tj_max";
+    else if (name == "ripple")
+        name = "load_ripple";
+    else if (name == "t_inductor")
+        name = "t_inductor_max";
+    else if (name == "f_sw") {
+        if (op == Direction::either)
+            throw UsageError("--limit \"" + text +
+                             "\": say f_sw<=VALUE (maximum) or f_sw>=VALUE "
+                             "(minimum)");
+        name = op == Direction::upper ? "f_sw_max" : "f_sw_min";
+    }
+    const LimitSpec* ls = nullptr;
+    for (const auto& s : limit_specs)
+        if (s.name == name) ls = &s;
+    if (ls == nullptr) {
+        std::string known;
+        for (const auto& n : limit_names())
+            known += (known.empty() ? "" : ", ") + n;
+        throw UsageError("--limit \"" + text + "\": unknown limit \"" + name +
+                         "\"; known: " + known);
+    }
+    if (op != Direction::either && op != ls->dir)
+        throw UsageError("--limit \"" + text + "\": " + name + " is " +
+                         (ls->dir == Direction::upper
+                              ? "an upper limit; write " + name + "<=VALUE"
+                              : "a lower limit; write " + name + ">=VALUE"));
+    double v = 0.0;
+    try {
+        v = u::parse(value, ls->dim);
+    } catch (const std::exception& e) {
+        throw UsageError("--limit \"" + text + "\": " + name + " takes a " +
+                         std::string(u::dimension_name(ls->dim)) + ": " + e.what());
+    }
+    if (!std::isfinite(v) || (ls->dim != u::Dimension::temperature && v <= 0.0))
+        throw UsageError("--limit \"" + text + "\": the value must be positive");
+    if (ls->dim == u::Dimension::ratio && name != "load_ripple" && v > 1.0)
+        throw UsageError("--limit \"" + text + "\": " + name + " is a fraction of at most 100 %");
+    auto& l = d.limits;
+    if (name == "load_ripple")
+        l.load_ripple = v;
+    else if (name == "f_sw_min")
+        l.f_sw_min = v;
+    else if (name == "f_sw_max")
+        l.f_sw_max = v;
+    else if (name == "isat_derating")
+        l.isat_derating = v;
+    else if (name == "vrrm_derating")
+        l.vrrm_derating = v;
+    else if (name == "diode_current_derating")
+        l.diode_current_derating = v;
+    else if (name == "tj_max")
+        l.tj_max = v;
+    else if (name == "t_inductor_max")
+        l.t_inductor_max = v;
+    else if (name == "height_max")
+        l.height_max = v;
+    else if (name == "footprint_max")
+        l.footprint_max = v;
+    else if (name == "efficiency_min")
+        l.efficiency_min = v;
+}
+
+void apply_weight(design::Design& d, std::string_view spec) {
+    const std::string text(spec);
+    const auto pos = text.find('=');
+    if (pos == std::string::npos)
+        throw UsageError("--weight \"" + text + "\": write NAME=VALUE, e.g. size=2");
+    const std::string name = trim(text.substr(0, pos));
+    const std::string value = trim(text.substr(pos + 1));
+    double v = 0.0;
+    try {
+        v = u::parse(value, u::Dimension::dimensionless);
+    } catch (const std::exception& e) {
+        throw UsageError("--weight \"" + text + "\": " + e.what());
+    }
+    if (!(v >= 0.0) || !std::isfinite(v))
+        throw UsageError("--weight \"" + text + "\": a weight is a number >= 0");
+    auto& w = d.weights;
+    if (name == "loss")
+        w.loss = v;
+    else if (name == "size")
+        w.size = v;
+    else if (name == "ripple")
+        w.ripple = v;
+    else if (name == "margin")
+        w.margin = v;
+    else if (name == "cost")
+        w.cost = v;
+    else
+        throw UsageError("--weight \"" + text + "\": unknown objective \"" + name +
+                         "\"; known: loss, size, ripple, margin, cost");
+}
+
+void apply_overrides(design::Design& d, const RankCliOptions& o) {
+    for (const auto& l : o.limits)
+        apply_limit(d, l);
+    for (const auto& w : o.weights)
+        apply_weight(d, w);
+    const auto& l = d.limits;
+    if (l.f_sw_max && *l.f_sw_max < l.f_sw_min)
+        throw UsageError("conflicting limits: the minimum switching frequency " +
+                         fmt(l.f_sw_min, u::Dimension::frequency) + " is above the maximum " +
+                         fmt(*l.f_sw_max, u::Dimension::frequency));
+    if (d.control.mode == design::ControlMode::pwm && l.f_sw_max &&
+        d.control.frequency_min > *l.f_sw_max)
+        throw UsageError("conflicting limits: the PWM frequency range starts at " +
+                         fmt(d.control.frequency_min, u::Dimension::frequency) +
+                         ", above the limit f_sw_max " + fmt(*l.f_sw_max, u::Dimension::frequency));
+}
+
+nlohmann::json to_json(const EffectiveOptions& o) {
+    nlohmann::json j;
+    j["top"] = o.top;
+    j["sources"] = o.sources;
+    j["exhaustive"] = o.exhaustive;
+    j["lock_inductor"] = o.lock_inductor ? nlohmann::json(*o.lock_inductor) : nullptr;
+    j["lock_diode"] = o.lock_diode ? nlohmann::json(*o.lock_diode) : nullptr;
+    j["band"] = o.band ? nlohmann::json(*o.band) : nullptr;
+    j["frequency"] = o.frequency ? nlohmann::json(*o.frequency) : nullptr;
+    return j;
+}
+
+EffectiveOptions effective_options_from_json(const nlohmann::json& j) {
+    EffectiveOptions o;
+    if (!j.is_object()) return o;
+    if (j.contains("top") && j["top"].is_number_integer()) o.top = j["top"].get<int>();
+    if (j.contains("sources") && j["sources"].is_array())
+        o.sources = j["sources"].get<std::vector<std::string>>();
+    if (j.contains("exhaustive") && j["exhaustive"].is_boolean())
+        o.exhaustive = j["exhaustive"].get<bool>();
+    auto str = [&](const char* k, std::optional<std::string>& out) {
+        if (j.contains(k) && j[k].is_string()) out = j[k].get<std::string>();
+    };
+    auto num = [&](const char* k, std::optional<double>& out) {
+        if (j.contains(k) && j[k].is_number()) out = j[k].get<double>();
+    };
+    str("lock_inductor", o.lock_inductor);
+    str("lock_diode", o.lock_diode);
+    num("band", o.band);
+    num("frequency", o.frequency);
+    return o;
+}
+
+EffectiveOptions merge_options(EffectiveOptions base, const RankCliOptions& o,
+                               const design::Design& d) {
+    if (o.top) {
+        if (*o.top < 1) throw UsageError("--top must be at least 1, got " + std::to_string(*o.top));
+        base.top = *o.top;
+    }
+    if (!o.sources.empty()) base.sources = o.sources;
+    if (o.exhaustive) base.exhaustive = true;
+    if (!o.lock_inductor.empty()) base.lock_inductor = o.lock_inductor;
+    if (!o.lock_diode.empty()) base.lock_diode = o.lock_diode;
+    if (!o.band.empty() && !o.frequency.empty())
+        throw UsageError("--band and --frequency exclude each other: the first fixes a hysteretic "
+                         "band, the second a PWM frequency");
+    if (!o.band.empty()) {
+        if (d.control.mode != design::ControlMode::hysteretic)
+            throw UsageError("--band " + o.band +
+                             ": this design uses PWM control; use --frequency");
+        double band = 0.0;
+        try {
+            band = u::parse(o.band, u::Dimension::current);
+        } catch (const std::exception&) {
+            try {
+                band = u::parse(o.band, u::Dimension::ratio) * loads::target_current(d.load);
+            } catch (const std::exception& e) {
+                throw UsageError("--band " + o.band +
+                                 ": give a current (\"0.2A\") or a fraction "
+                                 "of the target current (\"25%\"): " +
+                                 e.what());
+            }
+        }
+        if (!(band > 0.0)) throw UsageError("--band " + o.band + ": the band must be positive");
+        base.band = band;
+        base.frequency.reset();
+    }
+    if (!o.frequency.empty()) {
+        if (d.control.mode != design::ControlMode::pwm)
+            throw UsageError("--frequency " + o.frequency +
+                             ": this design uses hysteretic control; use --band");
+        double f = 0.0;
+        try {
+            f = u::parse(o.frequency, u::Dimension::frequency);
+        } catch (const std::exception& e) {
+            throw UsageError("--frequency " + o.frequency + ": " + e.what());
+        }
+        if (!(f > 0.0)) throw UsageError("--frequency " + o.frequency + ": must be positive");
+        base.frequency = f;
+        base.band.reset();
+    }
+    return base;
+}
+
+namespace {
+
+// A one-line progress bar on stderr: pairs done, rate, time left.
+class ProgressBar {
+public:
+    explicit ProgressBar(std::ostream& err) : err_(err) {}
+    void update(const studies::Progress& p) {
+        if (p.elapsed_s < 1.0 || p.total == 0) return;
+        const double frac =
+            std::min(1.0, static_cast<double>(p.done) / static_cast<double>(p.total));
+        const int width = 30;
+        const int filled = static_cast<int>(frac * width);
+        const double rate = static_cast<double>(p.done) / p.elapsed_s;
+        const double left =
+            rate > 0 ? static_cast<double>(p.total - std::min(p.done, p.total)) / rate : 0.0;
+        char buf[160];
+        std::snprintf(buf, sizeof buf, "\r[%s%s] %zu/%zu pairs  %.0f/s  %.0f s left ",
+                      std::string(static_cast<std::size_t>(filled), '#').c_str(),
+                      std::string(static_cast<std::size_t>(width - filled), '.').c_str(), p.done,
+                      p.total, rate, left);
+        err_ << buf << std::flush;
+        shown_ = true;
+    }
+    ~ProgressBar() {
+        if (shown_) err_ << "\r" << std::string(78, ' ') << "\r" << std::flush;
+    }
+
+private:
+    std::ostream& err_;
+    bool shown_ = false;
+};
+
+} // namespace
+
+RankSession run_ranking(const design::Design& d, const EffectiveOptions& o, unsigned threads,
+                        Context& ctx, bool progress) {
+    RankSession s;
+    s.design = d;
+    s.options = o;
+    auto& store = ctx.store();
+    if (!o.sources.empty()) {
+        const auto known = store.sources();
+        for (const auto& name : o.sources) {
+            const bool found = std::any_of(known.begin(), known.end(),
+                                           [&](const auto& k) { return k.name == name; });
+            if (!found) {
+                std::string list;
+                for (const auto& k : known)
+                    if (list.find(k.name) == std::string::npos)
+                        list += (list.empty() ? "" : ", ") + k.name;
+                throw UsageError("--source " + name + ": no such source in the catalog; sources: " +
+                                 (list.empty() ? std::string("none") : list));
+            }
+        }
+    }
+    s.inductors = store.all_inductors(o.sources);
+    s.diodes = store.all_diodes(o.sources);
+    s.fingerprint = store.fingerprint(o.sources);
+    auto& ro = s.rank_options;
+    ro.top = o.top;
+    ro.exhaustive = o.exhaustive;
+    ro.threads = threads;
+    ro.lock_inductor = o.lock_inductor;
+    ro.lock_diode = o.lock_diode;
+    ro.band = o.band;
+    ro.frequency = o.frequency;
+    std::unique_ptr<ProgressBar> bar;
+    if (progress && &ctx.err() == &std::cerr && isatty(STDERR_FILENO)) {
+        bar = std::make_unique<ProgressBar>(ctx.err());
+        ro.progress = [b = bar.get()](const studies::Progress& p) { b->update(p); };
+    }
+    try {
+        s.result =
+            studies::rank_pairs(s.design, s.inductors, s.diodes, ro, studies::default_evaluator());
+    } catch (const studies::RankError& e) {
+        throw UsageError(e.what());
+    }
+    ro.progress = nullptr;
+    return s;
+}
+
+int report_and_save(RankSession& s, const RankCliOptions& o, Context& ctx,
+                    std::optional<std::int64_t> parent) {
+    std::string study_name;
+    if (!o.no_save) {
+        studies::StudyStore store(ctx.store().database());
+        studies::Study st;
+        st.created = studies::utc_now();
+        st.name = o.study.empty() ? store.generate_name(s.design.name, st.created) : o.study;
+        st.parent_id = parent;
+        st.design = design::to_json(s.design);
+        st.options = to_json(s.options);
+        st.fingerprint = s.fingerprint;
+        st.results = studies::results_to_json(s.result, s.inductors, s.diodes, false);
+        store.save(st);
+        study_name = st.name;
+    }
+    report::RankReportInput in{s.design, s.inductors, s.diodes, s.result, study_name};
+    std::optional<studies::WhyReport> why;
+    if (!o.why.empty()) {
+        try {
+            why = studies::explain_part(s.design, s.inductors, s.diodes, s.result, s.rank_options,
+                                        studies::default_evaluator(), o.why);
+        } catch (const studies::RankError& e) {
+            throw UsageError(e.what());
+        }
+    }
+    if (o.json) {
+        auto j = report::rank_json(in);
+        if (why) j["why"] = why->json;
+        ctx.out() << j.dump(2) << "\n";
+    } else if (o.csv) {
+        ctx.out() << report::rank_csv(in);
+    } else {
+        ctx.out() << report::rank_text(in);
+        if (why) ctx.out() << "\nWhy " << o.why << ":\n" << why->text;
+    }
+    return s.result.top.empty() ? exit_error : exit_ok;
+}
+
+int run_rank(const RankCliOptions& o, Context& ctx) {
+    if (o.json && o.csv) throw UsageError("--json and --csv exclude each other");
+    design::Design d;
+    try {
+        d = design::load_design_file(o.design_file);
+    } catch (const design::DesignError& e) {
+        throw UsageError(e.what());
+    }
+    apply_overrides(d, o);
+    const EffectiveOptions eo = merge_options(EffectiveOptions{}, o, d);
+    RankSession s = run_ranking(d, eo, o.threads, ctx, true);
+    return report_and_save(s, o, ctx, std::nullopt);
+}
+
+void add_rank_options(CLI::App* c, RankCliOptions& o, bool with_study) {
+    c->add_option("--top", o.top, "how many pairs to list (default 10)");
+    c->add_option("--source", o.sources, "use only this catalog source (repeatable)");
+    c->add_flag("--exhaustive", o.exhaustive, "tune every pair that passes screening (no bounds)");
+    c->add_option("--threads", o.threads, "worker threads (default: all cores)");
+    c->add_flag("--json", o.json, "JSON output");
+    c->add_flag("--csv", o.csv, "CSV output, one row per listed pair");
+    c->add_option("--why", o.why, "explain why an inductor or diode (ID) is or is not listed");
+    c->add_option("--lock-inductor", o.lock_inductor,
+                  "rank only with this inductor (ID or SOURCE:ID)");
+    c->add_option("--lock-diode", o.lock_diode, "rank only with this diode (ID or SOURCE:ID)");
+    c->add_option("--band", o.band,
+                  "fix the hysteresis band (\"0.2A\" or \"25%\") instead of tuning it");
+    c->add_option("--frequency", o.frequency,
+                  "fix the PWM frequency (\"300kHz\") instead of tuning it");
+    c->add_option("--limit", o.limits,
+                  "override a limit: NAME<=VALUE or NAME>=VALUE (repeatable), e.g. height<=3mm, "
+                  "load_ripple<=10%, f_sw<=500kHz, efficiency>=90%");
+    c->add_option("--weight", o.weights,
+                  "objective weight NAME=VALUE (loss, size, ripple, margin, cost)");
+    if (with_study) {
+        c->add_option("--study", o.study, "save the run as this study (default: a generated name)");
+        c->add_flag("--no-save", o.no_save, "do not save the run as a study");
+    }
+}
+
+std::vector<Command> setup_rank(CLI::App& root) {
+    auto o = std::make_shared<RankCliOptions>();
+    CLI::App* c =
+        root.add_subcommand("rank", "Rank every inductor-diode pair of the catalog for a design");
+    c->add_option("DESIGN", o->design_file, "design file (JSON)")
+        ->required()
+        ->check(CLI::ExistingFile);
+    add_rank_options(c, *o, true);
+    c->footer(
+        "Example:\n  coilsieve rank data/examples/reading-lamp.json --top 5 --limit height<=3mm "
+        "--weight size=2\nEvery run is saved as a study (see `coilsieve study list`).");
+    return {{c, [o](Context& ctx) { return run_rank(*o, ctx); }}};
+}
+
+} // namespace coilsieve::cli

@@ -1,0 +1,43 @@
+#pragma once
+// The figures a tuned pair is judged on, and the single weighted score the tuner minimises.
+// Normalisation uses fixed, design-derived scales (never the spread of the evaluated pairs), so a
+// pair's score does not depend on which other pairs were evaluated or pruned.
+
+#include "converter/evaluate.hpp"
+#include "design/design.hpp"
+#include "parts/diode.hpp"
+#include "parts/inductor.hpp"
+
+#include <optional>
+
+namespace coilsieve::optimisation {
+
+struct Objectives {
+    double loss = 0.0;      // W at the nominal corner (time-weighted for a charger)
+    double efficiency = 0.0;
+    double ripple = 0.0;    // load ripple p-p as a fraction of the load current, worst corner
+    double size = 0.0;      // m^3, inductor body + diode package
+    double footprint = 0.0; // m^2, reported only
+    double margin = 0.0;    // 1 - peak/Isat at the worst corner; more is better
+    std::optional<double> cost; // sum of prices when both parts have one in the same currency
+};
+
+// Fixed scales a design gives to each objective.
+struct Scales {
+    double power = 1.0;   // W, output power at the nominal load point(s): loss is a fraction of it
+    double ripple = 0.3;  // fraction: the ripple limit, or 30 % p-p when the design sets none
+    double volume = 1e-6; // m^3: a fixed reference of 1 cm^3
+    double cost = 1.0;    // one currency unit
+};
+
+Scales make_scales(const design::Design& d);
+
+// Figures of one evaluated pair.
+Objectives objectives_of(const converter::PairEvaluation& e, const parts::Inductor& l,
+                         const parts::Diode& diode);
+
+// Weighted sum of normalised objectives; lower is better. Margin enters as (1 - margin), the
+// peak current as a share of Isat. Cost enters only when the pair has one.
+double score(const Objectives& o, const design::Weights& w, const Scales& s);
+
+} // namespace coilsieve::optimisation

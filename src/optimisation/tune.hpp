@@ -1,0 +1,74 @@
+#pragma once
+// Tuning the free setting of one inductor-diode pair: the hysteresis band (hysteretic control) or
+// the switching frequency (PWM, on a log scale). A coarse 1-D pre-scan picks the start, then
+// COBYLA refines it with every limit's worst-corner margin as an inequality constraint.
+
+#include "converter/evaluate.hpp"
+#include "design/design.hpp"
+#include "optimisation/objectives.hpp"
+#include "optimisation/solver.hpp"
+
+#include <functional>
+#include <string>
+#include <vector>
+
+namespace coilsieve::optimisation {
+
+enum class Variable { band, frequency };
+
+// The interval the free setting may take. lo == hi fixes it (no tuning).
+struct SettingRange {
+    Variable variable = Variable::band;
+    double lo = 0.0; // A (band) or Hz (frequency)
+    double hi = 0.0;
+    bool log_scale = false;
+};
+
+// From the design's control range (band converted to amperes at the target current).
+SettingRange setting_range(const design::Design& d);
+// A fixed setting (a --band or --frequency from the command line).
+SettingRange fixed_range(Variable v, double value);
+
+// The setting the tuner evaluates for a value of the free variable.
+converter::Setting make_setting(const SettingRange& r, const converter::Setting& base, double value);
+
+struct TuneOptions {
+    int prescan_points = 8;
+    SolverOptions solver{1e-4, 60, 0.0};
+};
+
+// One evaluated setting of a pair.
+struct TunedPoint {
+    converter::Setting setting;
+    converter::PairEvaluation evaluation;
+    Objectives objectives;
+    double score = 0.0;
+    double violation = 0.0; // largest broken margin as a positive number (0 when feasible)
+};
+
+struct TuneResult {
+    bool feasible = false;
+    TunedPoint best;              // feasible: the best point; infeasible: the least-violated one
+    SolverStatus status = SolverStatus::converged;
+    bool solver_ran = false;
+    int evaluations = 0;
+    // Feasible: the limit with the least margin (binding). Infeasible: the most broken limit at
+    // the least-violated setting.
+    converter::LimitCheck binding;
+    bool has_binding = false;
+};
+
+using PairEvaluator = std::function<converter::PairEvaluation(const converter::Setting&)>;
+using Scorer = std::function<TunedPoint(const converter::Setting&, converter::PairEvaluation&&)>;
+
+// A scorer from the parts, weights and scales.
+Scorer make_scorer(const parts::Inductor& l, const parts::Diode& diode, const design::Weights& w,
+                   const Scales& s);
+
+TuneResult tune(const SettingRange& range, const converter::Setting& base,
+                const PairEvaluator& evaluate, const Scorer& scorer, const TuneOptions& options = {});
+
+// The check with the smallest margin in an evaluation (nullptr when there are none).
+const converter::LimitCheck* least_margin(const converter::PairEvaluation& e);
+
+} // namespace coilsieve::optimisation

@@ -1,0 +1,52 @@
+#include "studies/pareto.hpp"
+
+#include <algorithm>
+#include <limits>
+#include <numeric>
+
+namespace coilsieve::studies {
+
+bool dominates(std::span<const double> a, std::span<const double> b) {
+    bool strictly = false;
+    for (std::size_t i = 0; i < a.size() && i < b.size(); ++i) {
+        if (a[i] > b[i]) return false;
+        if (a[i] < b[i]) strictly = true;
+    }
+    return strictly;
+}
+
+std::vector<std::size_t> pareto_front(const std::vector<std::vector<double>>& points) {
+    std::vector<std::size_t> order(points.size());
+    std::iota(order.begin(), order.end(), std::size_t{0});
+    // Lexicographic order: a point can only be dominated by one before it.
+    std::sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) {
+        if (points[a] != points[b]) return points[a] < points[b];
+        return a < b;
+    });
+    std::vector<std::size_t> front;
+    for (std::size_t i : order) {
+        bool dominated = false;
+        for (std::size_t f : front)
+            if (dominates(points[f], points[i])) {
+                dominated = true;
+                break;
+            }
+        if (!dominated) front.push_back(i);
+    }
+    std::sort(front.begin(), front.end());
+    return front;
+}
+
+std::vector<std::string> pareto_axes(const design::Weights& w) {
+    std::vector<std::string> axes{"loss", "size"};
+    if (w.cost > 0.0) axes.push_back("cost");
+    return axes;
+}
+
+std::vector<double> pareto_vector(const optimisation::Objectives& o, const design::Weights& w) {
+    std::vector<double> v{o.loss, o.size};
+    if (w.cost > 0.0) v.push_back(o.cost ? *o.cost : std::numeric_limits<double>::infinity());
+    return v;
+}
+
+} // namespace coilsieve::studies

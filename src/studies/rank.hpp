@@ -1,0 +1,119 @@
+#pragma once
+// Ranking every inductor-diode pair of a catalog for a design: screening, per-pair tuning,
+// exact pruning by lower bounds, a thread pool, the top N by weighted score and the Pareto set.
+//
+// Exactness of the pruning: a pair is skipped only when its score's lower bound is above the
+// current N-th best score AND its optimistic objective vector is dominated by a pair already
+// tuned. Its true score and objectives are no better than those bounds, so it could neither
+// enter the top N nor the Pareto set. Pairs are taken in batches of a fixed size in the order of
+// their bounds; a batch is tuned in parallel and merged in order, so the pairs tuned, and the
+// answer, do not depend on the number of threads.
+
+#include "converter/evaluate.hpp"
+#include "design/design.hpp"
+#include "optimisation/tune.hpp"
+#include "parts/diode.hpp"
+#include "parts/inductor.hpp"
+#include "studies/screen.hpp"
+
+#include <cstddef>
+#include <functional>
+#include <map>
+#include <optional>
+#include <stdexcept>
+#include <string>
+#include <vector>
+
+namespace coilsieve::studies {
+
+// A request the ranking cannot serve (unknown lock id, ...); what() says what would be right.
+class RankError : public std::invalid_argument {
+public:
+    using std::invalid_argument::invalid_argument;
+};
+
+using PairEvaluatorFn = std::function<converter::PairEvaluation(
+    const design::Design&, const parts::Inductor&, const parts::Diode&, const converter::Setting&)>;
+
+// converter::evaluate_pair.
+PairEvaluatorFn default_evaluator();
+
+struct Progress {
+    std::size_t done = 0;   // pairs tuned or skipped
+    std::size_t total = 0;  // pairs that passed screening
+    double elapsed_s = 0.0;
+};
+
+struct RankOptions {
+    int top = 10;
+    bool exhaustive = false;              // tune every pair that passed screening
+    unsigned threads = 0;                 // 0: all hardware threads
+    std::optional<std::string> lock_inductor; // ID or SOURCE:ID
+    std::optional<std::string> lock_diode;
+    std::optional<double> band;           // A: fixed band instead of tuning (hysteretic)
+    std::optional<double> frequency;      // Hz: fixed frequency instead of tuning (PWM)
+    optimisation::TuneOptions tune;
+    std::size_t batch = 64;               // pairs per parallel batch (fixed: determinism)
+    bool keep_all = false;                // keep every tuned pair in RankResult::all
+    std::function<void(const Progress&)> progress;
+};
+
+struct PairResult {
+    std::size_t inductor = 0; // index into the inductors given to rank_pairs
+    std::size_t diode = 0;
+    optimisation::TuneResult tune;
+    double bound = 0.0;       // the score's lower bound used for pruning
+    bool pareto = false;
+    int rank = 0;             // 1-based position by score among feasible pairs listed
+};
+
+struct ScreenedPart {
+    bool inductor = true;
+    std::size_t index = 0;
+    std::vector<ScreenReason> reasons;
+};
+
+struct RankCounts {
+    std::size_t inductors = 0, diodes = 0;
+    std::size_t inductors_screened = 0, diodes_screened = 0;
+    std::map<std::string, std::size_t> screened_by_limit; // parts, counted by every reason
+    std::size_t pairs_total = 0;      // inductors x diodes (after locks)
+    std::size_t pairs_considered = 0; // both parts passed screening
+    std::size_t pairs_pruned = 0;
+    std::size_t pairs_tuned = 0;
+    std::size_t pairs_feasible = 0;
+    std::size_t pairs_infeasible = 0;
+    std::map<std::string, std::size_t> infeasible_by_limit; // by the most broken limit
+    std::size_t pareto = 0;
+    std::size_t evaluations = 0;
+    std::size_t errors = 0;           // pairs whose evaluation threw (reported as infeasible)
+};
+
+struct RankResult {
+    std::vector<PairResult> top;      // best first, ranks 1..N
+    std::vector<PairResult> pareto;   // the whole Pareto set, by score
+    std::vector<PairResult> all;      // every tuned pair, only with keep_all
+    std::vector<ScreenedPart> screened;
+    std::vector<std::size_t> inductors_used; // indices after locks
+    std::vector<std::size_t> diodes_used;
+    std::vector<std::string> pareto_axes;
+    optimisation::SettingRange range;
+    optimisation::Scales scales;
+    RankCounts counts;
+    double elapsed_s = 0.0;
+};
+
+// Parts matching an id ("ID" or "SOURCE:ID"); empty when none.
+std::vector<std::size_t> find_inductor(const std::vector<parts::Inductor>& v, const std::string& key);
+std::vector<std::size_t> find_diode(const std::vector<parts::Diode>& v, const std::string& key);
+
+RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor>& inductors,
+                      const std::vector<parts::Diode>& diodes, const RankOptions& options,
+                      const PairEvaluatorFn& evaluate);
+
+// Tie-break order of pairs with equal scores: inductor id, diode id (then sources).
+bool pair_before(const PairResult& a, const PairResult& b,
+                 const std::vector<parts::Inductor>& inductors,
+                 const std::vector<parts::Diode>& diodes);
+
+} // namespace coilsieve::studies

@@ -1,0 +1,70 @@
+// Exact Pareto sets on small hand-made sets, ties included.
+#include "studies/pareto.hpp"
+
+#include <gtest/gtest.h>
+
+#include <random>
+
+using namespace coilsieve::studies;
+using V = std::vector<std::vector<double>>;
+using I = std::vector<std::size_t>;
+
+TEST(Pareto, Dominance) {
+    std::vector<double> a{1, 2}, b{2, 2}, c{1, 2};
+    EXPECT_TRUE(dominates(a, b));
+    EXPECT_FALSE(dominates(b, a));
+    EXPECT_FALSE(dominates(a, c)); // equal vectors: neither dominates
+}
+
+TEST(Pareto, TwoObjectiveStaircase) {
+    // (1,5) (2,3) (4,1) form the staircase; (3,4) is dominated by (2,3); (5,5) by all.
+    V p{{3, 4}, {1, 5}, {5, 5}, {2, 3}, {4, 1}};
+    EXPECT_EQ(pareto_front(p), (I{1, 3, 4}));
+}
+
+TEST(Pareto, TiesStayTogether) {
+    V p{{1, 1}, {1, 1}, {2, 0.5}, {1, 2}};
+    EXPECT_EQ(pareto_front(p), (I{0, 1, 2}));
+}
+
+TEST(Pareto, EqualInOneObjectiveBetterInOther) {
+    V p{{1, 3}, {1, 2}, {0, 4}};
+    EXPECT_EQ(pareto_front(p), (I{1, 2}));
+}
+
+TEST(Pareto, ThreeObjectives) {
+    V p{{1, 2, 3}, {3, 2, 1}, {2, 2, 2}, {2, 3, 3}, {1, 2, 3.5}};
+    EXPECT_EQ(pareto_front(p), (I{0, 1, 2}));
+}
+
+TEST(Pareto, EmptyAndSingle) {
+    EXPECT_TRUE(pareto_front({}).empty());
+    EXPECT_EQ(pareto_front(V{{7, 7}}), (I{0}));
+}
+
+TEST(Pareto, MatchesBruteForceOnRandomSets) {
+    std::mt19937 rng(7);
+    std::uniform_int_distribution<int> u(0, 5); // small range: many ties
+    for (int k = 0; k < 200; ++k) {
+        V p(30, std::vector<double>(3));
+        for (auto& v : p)
+            for (auto& x : v) x = u(rng);
+        I brute;
+        for (std::size_t i = 0; i < p.size(); ++i) {
+            bool dom = false;
+            for (std::size_t j = 0; j < p.size(); ++j)
+                if (j != i && dominates(p[j], p[i])) dom = true;
+            if (!dom) brute.push_back(i);
+        }
+        EXPECT_EQ(pareto_front(p), brute);
+    }
+}
+
+TEST(Pareto, CostAxisOnlyWhenWeighted) {
+    coilsieve::design::Weights w;
+    EXPECT_EQ(pareto_axes(w).size(), 2u);
+    w.cost = 1.0;
+    EXPECT_EQ(pareto_axes(w).size(), 3u);
+    coilsieve::optimisation::Objectives o;
+    EXPECT_TRUE(std::isinf(pareto_vector(o, w)[2])); // unpriced counts as most expensive
+}
