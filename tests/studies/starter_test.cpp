@@ -1,6 +1,8 @@
 // On the starter catalog, for both example designs: pruning never changes the answer (identical
 // top N and Pareto set with and without --exhaustive), the score bounds hold for every pair tuned,
-// and one or two threads give identical results.
+// and one or two threads give identical results. An exhaustive run of the charger over the whole
+// catalog takes many minutes on two cores, so the catalog is thinned deterministically (every
+// third inductor and diode, about 80,000 pairs before screening) to keep CI within its budget.
 #include "catalog/import.hpp"
 #include "design/design_json.hpp"
 #include "studies/rank.hpp"
@@ -37,6 +39,13 @@ const Starter& starter() {
         k.diodes = catalog::read_parts(slurp(dir + "diodes.csv"), "diodes.csv",
                                        catalog::PartKind::diode, "starter")
                        .diodes;
+        const auto thin = [](auto& parts) {
+            std::remove_reference_t<decltype(parts)> kept;
+            for (std::size_t i = 0; i < parts.size(); i += 3) kept.push_back(parts[i]);
+            parts = std::move(kept);
+        };
+        thin(k.inductors);
+        thin(k.diodes);
         return k;
     }();
     return s;
@@ -58,8 +67,8 @@ TEST_P(StarterCatalog, PrunedEqualsExhaustiveAndBoundsHold) {
     const auto d = design::load_design_file(std::string(COILSIEVE_SOURCE_DIR) +
                                             "/data/examples/" + GetParam());
     const auto& s = starter();
-    ASSERT_GE(s.inductors.size(), 2000u);
-    ASSERT_GE(s.diodes.size(), 300u);
+    ASSERT_GE(s.inductors.size(), 600u);
+    ASSERT_GE(s.diodes.size(), 100u);
     studies::RankOptions pruned, full;
     full.exhaustive = true;
     full.keep_all = true;
