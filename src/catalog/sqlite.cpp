@@ -1,3 +1,5 @@
+#include <chrono>
+#include <ctime>
 #include "catalog/sqlite.hpp"
 
 #include <sqlite3.h>
@@ -207,6 +209,15 @@ Transaction::~Transaction() {
 void Transaction::commit() {
     db_.exec("COMMIT");
     done_ = true;
+}
+
+std::string utc_now() {
+    const std::time_t t = std::chrono::system_clock::to_time_t(std::chrono::system_clock::now());
+    std::tm tm{};
+    gmtime_r(&t, &tm);
+    char buf[32];
+    std::strftime(buf, sizeof buf, "%Y-%m-%dT%H:%M:%SZ", &tm);
+    return buf;
 }
 
 } // namespace coilsieve::catalog::sqlite

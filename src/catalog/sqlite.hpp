@@ -15,6 +15,9 @@ struct sqlite3_stmt;
 
 namespace coilsieve::catalog::sqlite {
 
+// Current UTC time as "2026-12-01T22:30:00Z", the timestamp stored in every dated row.
+std::string utc_now();
+
 class SqliteError : public std::runtime_error {
 public:
     SqliteError(const std::string& what, int code) : std::runtime_error(what), code_(code) {}

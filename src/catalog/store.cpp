@@ -114,15 +114,6 @@ bool same_part(const Part& a, const Part& b) {
     return true;
 }
 
-std::string utc_now() {
-    const std::time_t t = std::chrono::system_clock::to_time_t(std::chrono::system_clock::now());
-    std::tm tm{};
-    gmtime_r(&t, &tm);
-    char buf[32];
-    std::strftime(buf, sizeof buf, "%Y-%m-%dT%H:%M:%SZ", &tm);
-    return buf;
-}
-
 std::string number_text(double v) {
     char buf[64];
     auto [end, ec] = std::to_chars(buf, buf + sizeof buf, v);
@@ -266,7 +257,7 @@ ImportSummary do_import(sqlite::Database& db, const ImportRequest& req, ImportRe
         ins.bind(1, req.source)
             .bind(2, to_string(kind))
             .bind(3, req.source_kind)
-            .bind(4, utc_now())
+            .bind(4, sqlite::utc_now())
             .bind(5, req.file_name)
             .bind(6, sha)
             .bind(7, static_cast<std::int64_t>(incoming.size()));

@@ -42,15 +42,6 @@ Study read_row(sql::Statement& st) {
 
 } // namespace
 
-std::string utc_now() {
-    const std::time_t t = std::chrono::system_clock::to_time_t(std::chrono::system_clock::now());
-    std::tm tm{};
-    gmtime_r(&t, &tm);
-    char buf[32];
-    std::strftime(buf, sizeof buf, "%Y-%m-%dT%H:%M:%SZ", &tm);
-    return buf;
-}
-
 std::int64_t StudyStore::save(Study& s) {
     if (s.name.empty()) throw StudyError("a study needs a name");
     sql::Transaction tx(db_);

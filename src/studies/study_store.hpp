@@ -49,8 +49,7 @@ private:
     catalog::sqlite::Database& db_;
 };
 
-// Current UTC time as "2026-12-01T22:30:00Z".
-std::string utc_now();
+using catalog::sqlite::utc_now;
 
 struct ObjectiveChange {
     std::string objective;
