@@ -684,4 +684,12 @@ std::string export_json(const std::vector<parts::Diode>& ps) {
     return export_json_impl(ps, PartKind::diode);
 }
 
+PartLists starter_parts() {
+    PartLists out;
+    out.inductors =
+        read_parts(starter_inductors_csv(), "inductors.csv", PartKind::inductor, "starter").inductors;
+    out.diodes = read_parts(starter_diodes_csv(), "diodes.csv", PartKind::diode, "starter").diodes;
+    return out;
+}
+
 } // namespace coilsieve::catalog

@@ -171,6 +171,13 @@ private:
 std::string_view starter_inductors_csv();
 std::string_view starter_diodes_csv();
 
+// The embedded starter catalog, parsed without a database (for tests and benchmarks).
+struct PartLists {
+    std::vector<parts::Inductor> inductors;
+    std::vector<parts::Diode> diodes;
+};
+PartLists starter_parts();
+
 // Write parts in a form read_parts reads back: CSV with a unit in each numeric header, or a JSON
 // array (numbers in SI, temperatures in °C). Assumed fields are left empty so that re-importing
 // reproduces the same parts and the same assumed flags.

@@ -1,7 +1,7 @@
 // Ranking speed: each example design on the starter catalog (target <= 1 s), a generated catalog
 // of 20,000 inductors x 3,000 diodes (target <= 20 s), exhaustive / pruned on the starter catalog
 // (target >= 50x), pairs per second and peak memory. Figures are printed as benchmark counters.
-#include "catalog/import.hpp"
+#include "catalog/store.hpp"
 #include "design/design_json.hpp"
 #include "studies/rank.hpp"
 
@@ -19,13 +19,6 @@ using namespace coilsieve;
 
 namespace {
 
-std::string slurp(const std::string& p) {
-    std::ifstream f(p);
-    std::stringstream s;
-    s << f.rdbuf();
-    return s.str();
-}
-
 struct Catalog {
     std::vector<parts::Inductor> inductors;
     std::vector<parts::Diode> diodes;
@@ -33,15 +26,8 @@ struct Catalog {
 
 const Catalog& starter() {
     static const Catalog c = [] {
-        const std::string dir = std::string(COILSIEVE_SOURCE_DIR) + "/data/starter/";
-        Catalog k;
-        k.inductors = catalog::read_parts(slurp(dir + "inductors.csv"), "inductors.csv",
-                                          catalog::PartKind::inductor, "starter")
-                          .inductors;
-        k.diodes = catalog::read_parts(slurp(dir + "diodes.csv"), "diodes.csv",
-                                       catalog::PartKind::diode, "starter")
-                       .diodes;
-        return k;
+        auto k = catalog::starter_parts();
+        return Catalog{std::move(k.inductors), std::move(k.diodes)};
     }();
     return c;
 }

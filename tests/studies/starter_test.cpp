@@ -3,7 +3,7 @@
 // and one or two threads give identical results. An exhaustive run of the charger over the whole
 // catalog takes many minutes on two cores, so the catalog is thinned deterministically (every
 // third inductor and diode, about 80,000 pairs before screening) to keep CI within its budget.
-#include "catalog/import.hpp"
+#include "catalog/store.hpp"
 #include "design/design_json.hpp"
 #include "studies/rank.hpp"
 #include "studies/result_json.hpp"
@@ -17,28 +17,9 @@ using namespace coilsieve;
 
 namespace {
 
-std::string slurp(const std::string& p) {
-    std::ifstream f(p);
-    std::stringstream s;
-    s << f.rdbuf();
-    return s.str();
-}
-
-struct Starter {
-    std::vector<parts::Inductor> inductors;
-    std::vector<parts::Diode> diodes;
-};
-
-const Starter& starter() {
-    static const Starter s = [] {
-        const std::string dir = std::string(COILSIEVE_SOURCE_DIR) + "/data/starter/";
-        Starter k;
-        k.inductors = catalog::read_parts(slurp(dir + "inductors.csv"), "inductors.csv",
-                                          catalog::PartKind::inductor, "starter")
-                          .inductors;
-        k.diodes = catalog::read_parts(slurp(dir + "diodes.csv"), "diodes.csv",
-                                       catalog::PartKind::diode, "starter")
-                       .diodes;
+const catalog::PartLists& starter() {
+    static const catalog::PartLists s = [] {
+        catalog::PartLists k = catalog::starter_parts();
         const auto thin = [](auto& parts) {
             std::remove_reference_t<decltype(parts)> kept;
             for (std::size_t i = 0; i < parts.size(); i += 3) kept.push_back(parts[i]);
