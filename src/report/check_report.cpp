@@ -140,7 +140,7 @@ Table limits_table(const converter::PairEvaluation& e) {
              {"value", Align::right},
              {"bound", Align::right},
              {"margin", Align::right},
-             {""}});
+             {"state"}});
     for (const auto* k : worst) {
         const Dimension dim = limit_dimension(k->limit);
         const bool status_row = k->limit == "thermal_runaway" || k->limit == "convergence";
