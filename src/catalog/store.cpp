@@ -383,7 +383,7 @@ Store::Store(const std::filesystem::path& path, OpenOptions options)
         db_.exec("PRAGMA cache_size = -65536");
         open_checks();
         const bool created = migrate();
-        if (created && options.seed_starter) seed();
+        if (created && options.load_starter) load_starter_parts();
     } catch (const sqlite::SqliteError& e) {
         if ((e.code() & 0xff) == 26 /* SQLITE_NOTADB */) {
             throw CatalogError(path.string() + " is not a coilsieve catalog (not an SQLite "
@@ -436,7 +436,7 @@ bool Store::migrate() {
     return created;
 }
 
-void Store::seed() {
+void Store::load_starter_parts() {
     const std::pair<PartKind, std::string_view> files[] = {
         {PartKind::inductor, starter_inductors_csv()}, {PartKind::diode, starter_diodes_csv()}};
     for (const auto& [kind, text] : files) {

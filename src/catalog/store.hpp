@@ -1,6 +1,6 @@
 #pragma once
 // The local parts catalog: one SQLite file holding sources (a starter set and the user's
-// imports), inductors, diodes and saved studies. Opening creates, migrates and (when new) seeds it.
+// imports), inductors, diodes and saved studies. Opening creates, migrates and (when new) fills it.
 
 #include "catalog/import.hpp"
 #include "catalog/sqlite.hpp"
@@ -116,7 +116,7 @@ struct DiodeQuery {
 };
 
 struct OpenOptions {
-    bool seed_starter = true; // seed a new database from the embedded starter catalog
+    bool load_starter = true; // fill a new database from the embedded starter catalog
 };
 
 class Store {
@@ -161,7 +161,7 @@ public:
 private:
     void open_checks();
     bool migrate(); // returns true if this call created the schema
-    void seed();
+    void load_starter_parts();
 
     std::filesystem::path path_;
     sqlite::Database db_;

@@ -40,7 +40,7 @@ public:
     std::ostream& err() { return err_; }
     const GlobalOptions& global() const { return global_; }
 
-    // The catalog, opened (created and seeded if new) on first call.
+    // The catalog, opened (created and filled if new) on first call.
     catalog::Store& store() {
         if (!store_) {
             store_.emplace(global_.db.empty() ? catalog::Store::default_path()

@@ -52,7 +52,7 @@ struct SimulationResult {
     Waveform waveform; // steady-state cycle(s), starting at a switch turn-on
 };
 
-// Steady state of a resolved circuit. `guess` (an analytical result) seeds the shooting.
+// Steady state of a resolved circuit. `guess` (an analytical result) starts the shooting.
 // The target duty for PWM is found by the simulator itself.
 SimulationResult simulate(const Circuit& k, const SimulationOptions& opt = {},
                           const converter::CornerResult* guess = nullptr);
@@ -65,7 +65,7 @@ SimulationResult simulate_corner(const design::Design& d, const parts::InductorM
                                  const SimulationOptions& opt = {},
                                  const converter::CornerResult* guess = nullptr);
 
-// Same, at the temperatures of an analytical result, seeded by it.
+// Same, at the temperatures of an analytical result, started from it.
 SimulationResult simulate_corner(const design::Design& d, const parts::InductorModel& l,
                                  const parts::DiodeModel& diode, const converter::Corner& c,
                                  const converter::Setting& s,

@@ -47,7 +47,7 @@ void BM_Import100k(benchmark::State& state) {
         const fs::path path = temp_db("import");
         state.ResumeTiming();
         {
-            Store store(path, OpenOptions{.seed_starter = false});
+            Store store(path, OpenOptions{.load_starter = false});
             ImportRequest req;
             req.kind = PartKind::inductor;
             req.source = "bench";
@@ -69,7 +69,7 @@ BENCHMARK(BM_Import100k)->Unit(benchmark::kMillisecond)->Iterations(3);
 
 void BM_RangeQuery(benchmark::State& state) {
     const fs::path path = temp_db("query");
-    Store store(path, OpenOptions{.seed_starter = false});
+    Store store(path, OpenOptions{.load_starter = false});
     ImportRequest req;
     req.kind = PartKind::inductor;
     req.source = "bench";

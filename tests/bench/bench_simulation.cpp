@@ -39,7 +39,7 @@ SimulationOptions no_waveform() {
     return o;
 }
 
-// Periodic steady state from the simulator's own estimate (no analytical seed).
+// Periodic steady state from the simulator's own estimate (no analytical start).
 void BM_SimulateCircuit(benchmark::State& state) {
     const Circuit k = circuit(static_cast<int>(state.range(0)));
     state.SetLabel(names[state.range(0)]);
@@ -53,8 +53,8 @@ void BM_SimulateCircuit(benchmark::State& state) {
 }
 BENCHMARK(BM_SimulateCircuit)->DenseRange(0, 5)->Unit(benchmark::kMicrosecond);
 
-// A whole corner as the check command runs it: engine first, simulator seeded by it.
-void BM_SimulateCornerSeeded(benchmark::State& state) {
+// A whole corner as the check command runs it: engine first, simulator started from it.
+void BM_SimulateCornerFromEngine(benchmark::State& state) {
     const testing::DesignCase x =
         testing::design_case(names[state.range(0)], circuit(static_cast<int>(state.range(0))));
     state.SetLabel(names[state.range(0)]);
@@ -64,7 +64,7 @@ void BM_SimulateCornerSeeded(benchmark::State& state) {
         benchmark::DoNotOptimize(r.steady.il_avg);
     }
 }
-BENCHMARK(BM_SimulateCornerSeeded)->DenseRange(0, 5)->Unit(benchmark::kMicrosecond);
+BENCHMARK(BM_SimulateCornerFromEngine)->DenseRange(0, 5)->Unit(benchmark::kMicrosecond);
 
 // ngspice on the same circuit (netlist, batch run, measurement), with the simulator's time on it
 // measured alongside: counter ngspice_over_simulator.

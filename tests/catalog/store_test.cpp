@@ -72,7 +72,7 @@ std::vector<std::string> ids(const std::vector<parts::Inductor>& ps) {
 }
 
 OpenOptions no_seed() {
-    return OpenOptions{.seed_starter = false};
+    return OpenOptions{.load_starter = false};
 }
 
 } // namespace
@@ -139,7 +139,7 @@ TEST(Store, MigratesFromVersionOne) {
     const auto found = s.find_inductors("old:X");
     ASSERT_EQ(found.size(), 1u);
     EXPECT_DOUBLE_EQ(found[0].inductance, 1e-5);
-    EXPECT_TRUE(s.sources().at(0).name == "old"); // an existing catalog is never re-seeded
+    EXPECT_TRUE(s.sources().at(0).name == "old"); // an existing catalog is never re-filled
 }
 
 TEST(Store, CheckConstraintsRejectImpossibleRows) {
@@ -489,7 +489,7 @@ TEST(Store, ExportImportRoundTripIsUnchanged) {
     }
 }
 
-TEST(Store, NewDatabaseIsSeededFromTheStarterCatalog) {
+TEST(Store, NewDatabaseIsFilledFromTheStarterCatalog) {
     Store s(":memory:");
     const bool have_starter = !starter_inductors_csv().empty();
     int starter_sources = 0;

@@ -1,4 +1,4 @@
-// `coilsieve check` end to end: the real binary, a temporary catalog (seeded from the starter
+// `coilsieve check` end to end: the real binary, a temporary catalog (filled from the starter
 // set) and the reading-lamp example design.
 
 #include <gtest/gtest.h>
