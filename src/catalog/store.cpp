@@ -540,6 +540,16 @@ std::vector<SourceInfo> Store::sources() {
     return out;
 }
 
+namespace {
+// The canonical name of a choice field's value, or an error listing the valid names.
+std::string required_choice(const char* field, const std::string& value) {
+    if (auto canon = canonical_choice(field, value)) return *canon;
+    std::string valid;
+    for (const auto& n : choice_names(field)) valid += (valid.empty() ? "" : ", ") + n;
+    throw CatalogError(std::string("unknown ") + field + " \"" + value + "\"; valid: " + valid);
+}
+} // namespace
+
 std::vector<parts::Inductor> Store::query(const InductorQuery& q) {
     std::string where;
     std::vector<Value> params;
@@ -555,14 +565,7 @@ std::vector<parts::Inductor> Store::query(const InductorQuery& q) {
     if (q.height_max) add("t.height <= ?", *q.height_max);
     if (q.dcr_max) add("t.dcr_typ <= ?", *q.dcr_max);
     if (q.family) {
-        auto canon = canonical_choice("family", *q.family);
-        if (!canon) {
-            std::string valid;
-            for (const auto& n : choice_names("family"))
-                valid += (valid.empty() ? "" : ", ") + n;
-            throw CatalogError("unknown family \"" + *q.family + "\"; valid: " + valid);
-        }
-        add("t.family = ?", *canon);
+        add("t.family = ?", required_choice("family", *q.family));
     }
     if (q.mounting)
         add("t.mounting = ?", canonical_choice("mounting", *q.mounting).value_or(*q.mounting));
@@ -584,14 +587,7 @@ std::vector<parts::Diode> Store::query(const DiodeQuery& q) {
     if (q.if_avg_min) add("t.if_avg >= ?", *q.if_avg_min);
     if (q.height_max) add("t.height <= ?", *q.height_max);
     if (q.technology) {
-        auto canon = canonical_choice("technology", *q.technology);
-        if (!canon) {
-            std::string valid;
-            for (const auto& n : choice_names("technology"))
-                valid += (valid.empty() ? "" : ", ") + n;
-            throw CatalogError("unknown technology \"" + *q.technology + "\"; valid: " + valid);
-        }
-        add("t.technology = ?", *canon);
+        add("t.technology = ?", required_choice("technology", *q.technology));
     }
     if (q.package) {
         add("lower(t.package) = lower(?)",
