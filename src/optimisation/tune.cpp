@@ -58,6 +58,11 @@ double from_unit(const SettingRange& r, double u) {
     return r.lo + (r.hi - r.lo) * u;
 }
 
+double to_unit(const SettingRange& r, double x) {
+    if (r.log_scale) return std::clamp(std::log(x / r.lo) / std::log(r.hi / r.lo), 0.0, 1.0);
+    return std::clamp((x - r.lo) / (r.hi - r.lo), 0.0, 1.0);
+}
+
 // Constraint vector: one entry per limit name seen in the pre-scan (its worst margin, negated)
 // plus one for any other limit. Feasibility itself is the evaluation's own verdict.
 struct ConstraintMap {
@@ -100,8 +105,18 @@ bool better(const TunedPoint& a, const TunedPoint& b) {
 
 } // namespace
 
+std::vector<double> prescan_values(const SettingRange& range, const TuneOptions& options) {
+    if (!(range.hi > range.lo)) return {range.lo};
+    const int k = std::max(2, options.prescan_points);
+    std::vector<double> v;
+    v.reserve(static_cast<std::size_t>(k));
+    for (int i = 0; i < k; ++i) v.push_back(from_unit(range, static_cast<double>(i) / (k - 1)));
+    return v;
+}
+
 TuneResult tune(const SettingRange& range, const converter::Setting& base,
-                const PairEvaluator& evaluate, const Scorer& scorer, const TuneOptions& options) {
+                const PairEvaluator& evaluate, const Scorer& scorer, const TuneOptions& options,
+                std::span<const double> hints) {
     TuneResult result;
     bool have_best = false;
     auto consider = [&](TunedPoint&& p) {
@@ -120,17 +135,27 @@ TuneResult tune(const SettingRange& range, const converter::Setting& base,
     };
 
     const bool fixed = !(range.hi > range.lo);
-    const int k = fixed ? 1 : std::max(2, options.prescan_points);
+    const std::vector<double> values = prescan_values(range, options);
+    const int k = static_cast<int>(values.size());
     ConstraintMap cmap;
     double best_u = 0.0;
     for (int i = 0; i < k; ++i) {
         const double u = fixed ? 0.0 : static_cast<double>(i) / (k - 1);
-        TunedPoint p = eval_at(from_unit(range, u));
+        TunedPoint p = eval_at(values[static_cast<std::size_t>(i)]);
         cmap.learn(p.evaluation);
         const bool improves = !have_best || better(p, result.best);
         consider(std::move(p));
         if (improves) best_u = u;
     }
+    if (!fixed)
+        for (double x : hints) {
+            if (!(x >= range.lo && x <= range.hi)) continue;
+            TunedPoint p = eval_at(x);
+            cmap.learn(p.evaluation);
+            const bool improves = better(p, result.best);
+            consider(std::move(p));
+            if (improves) best_u = to_unit(range, x);
+        }
 
     if (!fixed && options.solver.max_evaluations > 0) {
         Problem problem;

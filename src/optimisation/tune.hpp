@@ -9,6 +9,7 @@
 #include "optimisation/solver.hpp"
 
 #include <functional>
+#include <span>
 #include <string>
 #include <vector>
 
@@ -65,8 +66,15 @@ using Scorer = std::function<TunedPoint(const converter::Setting&, converter::Pa
 Scorer make_scorer(const parts::Inductor& l, const parts::Diode& diode, const design::Weights& w,
                    const Scales& s);
 
+// The values of the free variable the pre-scan visits, in order (one when the range is fixed).
+// The tuned result is never worse than the best feasible one of them.
+std::vector<double> prescan_values(const SettingRange& range, const TuneOptions& options = {});
+
+// `hints`: extra values of the free variable evaluated after the pre-scan (e.g. where a bound
+// puts the optimum); the best of all of them starts the local solve.
 TuneResult tune(const SettingRange& range, const converter::Setting& base,
-                const PairEvaluator& evaluate, const Scorer& scorer, const TuneOptions& options = {});
+                const PairEvaluator& evaluate, const Scorer& scorer, const TuneOptions& options = {},
+                std::span<const double> hints = {});
 
 // The check with the smallest margin in an evaluation (nullptr when there are none).
 const converter::LimitCheck* least_margin(const converter::PairEvaluation& e);

@@ -1,6 +1,7 @@
 #include "studies/rank.hpp"
 
 #include "optimisation/objectives.hpp"
+#include "studies/bounds.hpp"
 #include "studies/pareto.hpp"
 
 #include <algorithm>
@@ -74,27 +75,23 @@ public:
             return col > o.col;
         }
     };
-    // Next pair of a live row (the caller checks empty() first; returns false when none left).
+    // The next pair; false when none is left.
     bool pop(Item& out) {
-        while (!heap_.empty()) {
-            Item it = heap_.top();
-            heap_.pop();
-            if (dead_.size() > it.row && dead_[it.row]) continue;
-            if (it.col + 1 < cols_.size())
-                heap_.push({a_[it.row] + b_[it.col + 1], it.row, it.col + 1});
-            out = it;
-            return true;
-        }
-        return false;
+        if (heap_.empty()) return false;
+        out = heap_.top();
+        heap_.pop();
+        if (out.col + 1 < cols_.size())
+            heap_.push({a_[out.row] + b_[out.col + 1], out.row, out.col + 1});
+        return true;
     }
-    // Drops the rest of the row of an item just popped; returns how many pairs that skips.
-    std::size_t drop_rest_of_row(const Item& it) {
-        if (dead_.empty()) dead_.assign(rows_.size(), false);
-        dead_[it.row] = true;
-        return cols_.size() - (it.col + 1);
+    // The next item of every row not yet exhausted (each stands for the rest of its row).
+    std::vector<Item> remaining() const {
+        auto copy = heap_;
+        std::vector<Item> out;
+        out.reserve(copy.size());
+        for (; !copy.empty(); copy.pop()) out.push_back(copy.top());
+        return out;
     }
-    std::size_t row_part(std::size_t r) const { return rows_[r]; }
-    std::size_t col_part(std::size_t c) const { return cols_[c]; }
 
 private:
     std::vector<std::size_t> rows_;
@@ -102,7 +99,6 @@ private:
     std::vector<std::size_t> cols_;
     std::vector<double> b_;
     std::priority_queue<Item, std::vector<Item>, std::greater<Item>> heap_;
-    std::vector<bool> dead_;
 };
 
 } // namespace
@@ -207,7 +203,10 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         try {
             const auto m = parts::make_model(part);
             lprep[k].reasons = screen_inductor(ctx, part, m);
-            lprep[k].bound = inductor_bound(ctx, part, m);
+            if (lprep[k].reasons.empty()) {
+                lprep[k].bound = inductor_bound(ctx, part, m, res.scales);
+                if (lprep[k].bound.window) lprep[k].reasons.push_back(*lprep[k].bound.window);
+            }
         } catch (const std::exception& e) {
             lprep[k].reasons.push_back({"model", "", 0, 0, e.what()});
         }
@@ -218,8 +217,8 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
             const auto m = parts::make_model(part);
             dprep[k].prepared = part;
             dprep[k].prepared.spice = m.fwd;
-            dprep[k].reasons = screen_diode(ctx, part);
-            dprep[k].bound = diode_bound(ctx, part, m);
+            dprep[k].reasons = screen_diode(ctx, part, m);
+            dprep[k].bound = diode_bound(ctx, part, m, res.scales);
         } catch (const std::exception& e) {
             dprep[k].reasons.push_back({"model", "", 0, 0, e.what()});
         }
@@ -249,14 +248,10 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
     }
     counts.pairs_considered = lrows.size() * dcols.size();
 
-    // Separable score bound: inductor part + diode part (cost is added per pair).
-    auto l_term = [&](const InductorBound& ib) {
-        return w.loss * (ib.loss + ctx.loss_floor) / sc.power + w.size * ib.size / sc.volume +
-               w.ripple * ib.ripple / sc.ripple + w.margin * (1.0 - ib.margin);
-    };
-    auto d_term = [&](const DiodeBound& db) {
-        return w.loss * db.loss / sc.power + w.size * db.size / sc.volume;
-    };
+    // Separable score bound: inductor part + diode part; the pair adds its exact cost and the
+    // diode's junction-charge loss at the inductor's lowest frequency (bounds.hpp).
+    auto l_term = [&](const InductorBound& ib) { return ib.score; };
+    auto d_term = [&](const DiodeBound& db) { return db.score; };
     // Sort rows and columns by their terms (ties by part order: deterministic).
     std::stable_sort(lrows.begin(), lrows.end(), [&](std::size_t x, std::size_t y) {
         return l_term(lprep[x].bound) < l_term(lprep[y].bound);
@@ -267,9 +262,11 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
     for (auto k : lrows) a.push_back(l_term(lprep[k].bound));
     for (auto k : dcols) b.push_back(d_term(dprep[k].bound));
     double min_d_loss = INFINITY, min_d_size = INFINITY, min_d_price = INFINITY;
+    double min_d_esw = INFINITY;
     for (auto k : dcols) {
         min_d_loss = std::min(min_d_loss, dprep[k].bound.loss);
         min_d_size = std::min(min_d_size, dprep[k].bound.size);
+        min_d_esw = std::min(min_d_esw, dprep[k].bound.e_switch);
         const auto& p = diodes[res.diodes_used[k]].price;
         min_d_price = std::min(min_d_price, p ? *p : INFINITY);
     }
@@ -280,13 +277,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         return std::nullopt;
     };
     auto optimistic = [&](std::size_t lk, std::size_t dk) {
-        const auto& lb = lprep[lk].bound;
-        const auto& db = dprep[dk].bound;
-        optimisation::Objectives o;
-        o.loss = lb.loss + db.loss + ctx.loss_floor;
-        o.size = lb.size + db.size;
-        o.margin = lb.margin;
-        o.ripple = lb.ripple;
+        optimisation::Objectives o = pair_optimistic(ctx, lprep[lk].bound, dprep[dk].bound);
         o.cost = pair_cost(inductors[res.inductors_used[lk]], diodes[res.diodes_used[dk]]);
         return o;
     };
@@ -316,16 +307,58 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
     const converter::Setting base = converter::default_setting(d);
     std::vector<std::size_t> dprep_of(diodes.size(), 0);
     for (std::size_t k = 0; k < res.diodes_used.size(); ++k) dprep_of[res.diodes_used[k]] = k;
-    auto tune_one = [&](PairResult& pr) {
+    // A pair that can only matter for the Pareto set is first probed once, where its score bound
+    // is least. The tuner starts from that same point and ends no worse, so the tuned setting
+    // lies where the score bound is below the probe's score, and the loss bound there often
+    // shows the pair dominated (bounds.hpp, pair_loss_within).
+    struct Job {
+        PairResult r;
+        std::size_t lk = 0, dk = 0;
+        bool probe = false;   // probe before tuning (set when taken into a batch)
+        bool probed = false;  // its loss bound already has the probe's tightening
+        bool skipped = false; // the probe showed it dominated
+        bool requeue = false; // the probe raised its loss bound: back to the queue
+        optimisation::Objectives optimistic;
+        double cost_term = 0.0;
+        int probe_evaluations = 0;
+    };
+    auto run_job = [&](Job& job) {
+        PairResult& pr = job.r;
         const auto& l = inductors[pr.inductor];
         const auto& di = diodes[pr.diode];
         const auto& prepared = dprep[dprep_of[pr.diode]].prepared;
-        optimisation::PairEvaluator ev = [&](const converter::Setting& s) {
-            return evaluate(d, l, prepared, s);
-        };
+        const auto scorer = optimisation::make_scorer(l, di, w, scales);
+        const auto& lb = lprep[job.lk].bound;
+        const auto& db = dprep[job.dk].bound;
+        // The tuner also starts from where the bound is least, in every mode (same answer).
+        std::vector<double> hints;
+        if (const auto x = pair_best_setting(ctx, lb, db, scales)) hints.push_back(*x);
         try {
-            pr.tune = optimisation::tune(res.range, base, ev,
-                                         optimisation::make_scorer(l, di, w, scales), options.tune);
+            if (job.probe && !hints.empty()) {
+                const double x = hints.front();
+                const auto s = optimisation::make_setting(res.range, base, x);
+                const auto p = scorer(s, evaluate(d, l, prepared, s));
+                job.probe_evaluations = 1;
+                job.probed = true;
+                if (p.evaluation.feasible && std::isfinite(p.score)) {
+                    auto o = job.optimistic;
+                    o.loss = std::max(o.loss, pair_loss_within(ctx, lb, db, scales,
+                                                               p.score - job.cost_term));
+                    if (dominated_by_front(pareto_vector(o, w))) {
+                        job.skipped = true;
+                        return;
+                    }
+                    if (o.loss > job.optimistic.loss) {
+                        job.optimistic = o;
+                        job.requeue = true;
+                        return;
+                    }
+                }
+            }
+            optimisation::PairEvaluator ev = [&](const converter::Setting& s) {
+                return evaluate(d, l, prepared, s);
+            };
+            pr.tune = optimisation::tune(res.range, base, ev, scorer, options.tune, hints);
         } catch (const std::exception& e) {
             pr.tune = optimisation::TuneResult{};
             pr.tune.feasible = false;
@@ -336,13 +369,32 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         }
     };
 
-    std::vector<PairResult> batch;
+    std::vector<Job> batch;
     batch.reserve(options.batch);
     std::size_t done = 0;
     auto last_progress = elapsed();
+    // Pareto-only pairs whose probe raised their loss bound go back to the queue (phase 2).
+    std::vector<Job> requeue;
     auto run_batch = [&] {
-        parallel_for(batch.size(), threads, [&](std::size_t k) { tune_one(batch[k]); });
-        for (auto& pr : batch) {
+        // The front and the threshold are only read while the batch runs; they change in the
+        // merge below, in batch order, so the outcome does not depend on the number of threads.
+        parallel_for(batch.size(), threads, [&](std::size_t k) { run_job(batch[k]); });
+        for (auto& job : batch) {
+            counts.evaluations += static_cast<std::size_t>(job.probe_evaluations);
+            if (job.probe_evaluations > 0) ++counts.pairs_probed;
+            if (job.skipped) {
+                ++counts.pairs_pruned;
+                ++done;
+                continue;
+            }
+            if (job.requeue) {
+                job.requeue = false;
+                job.probe = false;
+                requeue.push_back(std::move(job));
+                continue;
+            }
+            ++done;
+            auto& pr = job.r;
             ++counts.pairs_tuned;
             counts.evaluations += static_cast<std::size_t>(pr.tune.evaluations);
             if (pr.tune.binding.limit == "evaluation_error") ++counts.errors;
@@ -368,54 +420,132 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
                 front.push_back({std::move(v), pr});
             }
         }
-        done += batch.size();
         batch.clear();
         if (options.progress && elapsed() - last_progress > 0.1) {
             last_progress = elapsed();
             options.progress({done, counts.pairs_considered, last_progress});
         }
     };
+    auto make_job = [&](std::size_t row, std::size_t col) {
+        Job job;
+        job.lk = lrows[row];
+        job.dk = dcols[col];
+        job.r.inductor = res.inductors_used[job.lk];
+        job.r.diode = res.diodes_used[job.dk];
+        job.optimistic = optimistic(job.lk, job.dk);
+        const auto& opt = job.optimistic;
+        job.cost_term = opt.cost && w.cost > 0.0 ? w.cost * *opt.cost / sc.cost : 0.0;
+        job.r.bound =
+            pair_score_bound(ctx, lprep[job.lk].bound, dprep[job.dk].bound, sc) + job.cost_term;
+        return job;
+    };
 
+    // Phase 1, the top N: pairs in ascending order of their separable score bound. Once that
+    // bound is above the N-th best score, no later pair can enter the top N (the bound only
+    // grows along the stream, the N-th score only falls).
+    std::vector<Job> deferred; // out of the top N, perhaps on the Pareto set
     CandidateStream::Item it{};
-    while (stream.pop(it)) {
-        const std::size_t lk = lrows[it.row];
-        const std::size_t dk = dcols[it.col];
-        const std::size_t li = res.inductors_used[lk];
-        const std::size_t di = res.diodes_used[dk];
+    bool phase1_over = false;
+    while (!phase1_over && stream.pop(it)) {
         if (!options.exhaustive && it.key > threshold()) {
-            // Score can no longer reach the top N for this row: test the whole rest of the row
-            // against the front with the row's most optimistic vector.
-            optimisation::Objectives row = optimistic(lk, dk);
-            row.loss = lprep[lk].bound.loss + min_d_loss + ctx.loss_floor;
-            row.size = lprep[lk].bound.size + min_d_size;
-            // Cost: the cheapest priced partner, or none (counted as most expensive) when the
-            // inductor or every diode lacks a price - exact for every pair of the row then.
-            const auto& lp = inductors[li].price;
-            if (lp && std::isfinite(min_d_price)) row.cost = *lp + min_d_price;
-            else row.cost.reset();
-            const bool row_dominated = dominated_by_front(pareto_vector(row, w));
-            if (row_dominated) {
-                const std::size_t dropped = 1 + stream.drop_rest_of_row(it);
-                counts.pairs_pruned += dropped;
-                done += dropped;
-                continue;
+            if (!batch.empty()) run_batch();
+            if (it.key > threshold()) {
+                deferred.push_back(make_job(it.row, it.col));
+                phase1_over = true;
+                break;
             }
         }
-        PairResult pr;
-        pr.inductor = li;
-        pr.diode = di;
-        const auto opt = optimistic(lk, dk);
-        pr.bound = it.key + (opt.cost && w.cost > 0.0 ? w.cost * *opt.cost / sc.cost : 0.0);
-        if (!options.exhaustive && pr.bound > threshold() &&
-            dominated_by_front(pareto_vector(opt, w))) {
-            ++counts.pairs_pruned;
-            ++done;
+        Job job = make_job(it.row, it.col);
+        if (!options.exhaustive && job.r.bound > threshold()) {
+            deferred.push_back(std::move(job));
             continue;
         }
-        batch.push_back(std::move(pr));
+        batch.push_back(std::move(job));
         if (batch.size() >= options.batch) run_batch();
     }
     if (!batch.empty()) run_batch();
+
+    // Phase 2, the Pareto set: what is left can only matter there. Taken in ascending order of
+    // the optimistic loss, a pair is reached only after every pair that could dominate it
+    // (its loss is no lower than its bound), so the front that tests it is as full as it can be.
+    // Rows not yet expanded stand for all their remaining pairs with the row's own bound.
+    struct Entry {
+        double key = 0.0;
+        bool row = false;          // a row remainder: inductor `row_index`, columns from `col`
+        std::size_t row_index = 0, col = 0;
+        std::size_t job = 0;       // index into `jobs` when !row
+        bool operator>(const Entry& o) const {
+            if (key != o.key) return key > o.key;
+            if (row_index != o.row_index) return row_index > o.row_index;
+            if (col != o.col) return col > o.col;
+            return row > o.row;
+        }
+    };
+    std::vector<Job> jobs;
+    std::priority_queue<Entry, std::vector<Entry>, std::greater<Entry>> queue;
+    auto push_job = [&](Job&& job, std::size_t row, std::size_t col) {
+        queue.push({job.optimistic.loss, false, row, col, jobs.size()});
+        jobs.push_back(std::move(job));
+    };
+    std::vector<std::size_t> row_of(lprep.size(), 0);
+    for (std::size_t r = 0; r < lrows.size(); ++r) row_of[lrows[r]] = r;
+    std::vector<std::size_t> col_of(dprep.size(), 0);
+    for (std::size_t c = 0; c < dcols.size(); ++c) col_of[dcols[c]] = c;
+    auto row_vector = [&](std::size_t row) {
+        // The most optimistic vector of any pair of the row: cost from the cheapest priced
+        // partner, or none (counted as most expensive) when the inductor or every diode lacks
+        // a price - exact for every pair of the row then.
+        const std::size_t lk = lrows[row];
+        const auto& lb = lprep[lk].bound;
+        optimisation::Objectives o;
+        o.loss = lb.loss + min_d_loss + ctx.loss_floor + min_d_esw * lb.f_min;
+        o.size = lb.size + min_d_size;
+        o.ripple = lb.ripple;
+        o.margin = lb.margin;
+        const auto& lp = inductors[res.inductors_used[lk]].price;
+        if (lp && std::isfinite(min_d_price)) o.cost = *lp + min_d_price;
+        return o;
+    };
+    if (phase1_over) {
+        for (auto& job : deferred) push_job(std::move(job), row_of[job.lk], col_of[job.dk]);
+        for (const auto& rest : stream.remaining())
+            queue.push({row_vector(rest.row).loss, true, rest.row, rest.col, 0});
+    } else {
+        for (auto& job : deferred) push_job(std::move(job), row_of[job.lk], col_of[job.dk]);
+    }
+    deferred.clear();
+    while (!queue.empty() || !batch.empty()) {
+        while (!queue.empty() && batch.size() < options.batch) {
+            const Entry e = queue.top();
+            queue.pop();
+            if (e.row) {
+                if (dominated_by_front(pareto_vector(row_vector(e.row_index), w))) {
+                    const std::size_t n = dcols.size() - e.col;
+                    counts.pairs_pruned += n;
+                    done += n;
+                    continue;
+                }
+                for (std::size_t c = e.col; c < dcols.size(); ++c)
+                    push_job(make_job(e.row_index, c), e.row_index, c);
+                continue;
+            }
+            Job& job = jobs[e.job];
+            if (dominated_by_front(pareto_vector(job.optimistic, w))) {
+                ++counts.pairs_pruned;
+                ++done;
+                continue;
+            }
+            job.probe = !job.probed && !front.empty();
+            batch.push_back(std::move(job));
+        }
+        if (batch.empty()) break;
+        run_batch();
+        for (auto& job : requeue) {
+            const std::size_t row = row_of[job.lk], col = col_of[job.dk];
+            push_job(std::move(job), row, col);
+        }
+        requeue.clear();
+    }
 
     // Results.
     for (std::size_t k = 0; k < top.size(); ++k) top[k].rank = static_cast<int>(k + 1);

@@ -2,11 +2,13 @@
 // Ranking every inductor-diode pair of a catalog for a design: screening, per-pair tuning,
 // exact pruning by lower bounds, a thread pool, the top N by weighted score and the Pareto set.
 //
-// Exactness of the pruning: a pair is skipped only when its score's lower bound is above the
-// current N-th best score AND its optimistic objective vector is dominated by a pair already
-// tuned. Its true score and objectives are no better than those bounds, so it could neither
-// enter the top N nor the Pareto set. Pairs are taken in batches of a fixed size in the order of
-// their bounds; a batch is tuned in parallel and merged in order, so the pairs tuned, and the
+// Exactness of the pruning. Phase 1 (top N) takes pairs in ascending order of a score lower
+// bound and stops once the bound is above the N-th best score. Phase 2 (Pareto set) takes what is
+// left in ascending order of an optimistic loss; a pair is skipped only when its optimistic
+// objective vector is dominated by a pair already tuned. Its true score and objectives are no
+// better than those bounds, so it could enter neither the top N nor the Pareto set. The bounds
+// and the one-evaluation probe that tightens them are in bounds.hpp. Pairs are tuned in batches
+// of a fixed size; a batch is tuned in parallel and merged in order, so the pairs tuned, and the
 // answer, do not depend on the number of threads.
 
 #include "converter/evaluate.hpp"
@@ -79,7 +81,8 @@ struct RankCounts {
     std::map<std::string, std::size_t> screened_by_limit; // parts, counted by every reason
     std::size_t pairs_total = 0;      // inductors x diodes (after locks)
     std::size_t pairs_considered = 0; // both parts passed screening
-    std::size_t pairs_pruned = 0;
+    std::size_t pairs_pruned = 0;     // skipped by bounds (some after one probe evaluation)
+    std::size_t pairs_probed = 0;     // evaluated once at a pre-scan point before tuning
     std::size_t pairs_tuned = 0;
     std::size_t pairs_feasible = 0;
     std::size_t pairs_infeasible = 0;

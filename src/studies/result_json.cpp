@@ -103,6 +103,7 @@ nlohmann::json counts_to_json(const RankCounts& c) {
             {"pairs_total", c.pairs_total},
             {"pairs_considered", c.pairs_considered},
             {"pairs_pruned", c.pairs_pruned},
+            {"pairs_probed", c.pairs_probed},
             {"pairs_tuned", c.pairs_tuned},
             {"pairs_feasible", c.pairs_feasible},
             {"pairs_infeasible", c.pairs_infeasible},

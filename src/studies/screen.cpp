@@ -14,7 +14,6 @@ namespace u = coilsieve::units;
 namespace {
 
 // Allowances that keep every screen a necessary condition (see screen.hpp).
-constexpr double current_slack = 0.97;   // regulation error of the average current
 constexpr double duty_slack = 0.75;      // (1 - D) >= 0.75 (1 - D_ideal): drops the ideal duty ignores
 constexpr double loss_slack = 0.9;       // loss floors are scaled down by this
 constexpr double t_hot = 448.15;         // K (175 °C): no part runs hotter and stays feasible
@@ -29,8 +28,7 @@ bool hysteretic(const ScreenContext& c) {
 
 // The band at a corner: a fractional band follows the corner's current (converter::corner_setting).
 double band_scale(const ScreenContext& c, const EnvelopeCorner& k) {
-    if (!c.design->control.band_is_fraction || c.target <= 0.0 || k.current <= 0.0) return 1.0;
-    return k.current / c.target;
+    return band_at(c, k, 1.0);
 }
 double band_lo(const ScreenContext& c) { return hysteretic(c) ? c.range.lo : 0.0; }
 double band_hi(const ScreenContext& c) { return hysteretic(c) ? c.range.hi : 0.0; }
@@ -55,9 +53,7 @@ double von_floor(const ScreenContext& c, const EnvelopeCorner& k, double dcr_max
     return k.vin - vo_hi - i_hi * r;
 }
 
-// g = Von·Voff/(Von + Voff): the buck's volt-second product per unit time, f·L·ΔI = g
-// (volt-second balance, Erickson & Maksimović 2nd ed. ch. 2). Increasing in both arguments.
-double g_of(double von, double voff) { return von * voff / (von + voff); }
+double g_of(double von, double voff) { return volt_second_rate(von, voff); }
 
 // Largest inductor ripple (A p-p) a feasible pair can have at a corner (hysteretic control): the
 // band plus the delay overshoot, and no more than the load-ripple limit allows without a capacitor.
@@ -69,48 +65,32 @@ double ripple_ceiling(const ScreenContext& c, const EnvelopeCorner& k, double l_
     return di;
 }
 
-// Lowest switching frequency a feasible pair can run at a corner: f_sw_min, and for hysteretic
-// control f >= g/(L_hi·ΔI_max) (t_on <= L·ΔI/Von_min, t_off <= L·ΔI/Voff_min).
-double frequency_floor(const ScreenContext& c, const EnvelopeCorner& k, const parts::Inductor& l,
-                       double l0) {
-    double f = c.design->limits.f_sw_min;
-    if (hysteretic(c)) {
-        const double l_lo = l0 * k.l_scale * (1.0 - l.sat_drop);
-        const double l_hi = l0 * k.l_scale;
-        const double von = von_floor(c, k, l.dcr_max);
-        if (von > 0.0 && l_lo > 0.0) f = std::max(f, g_of(von, k.v0) / (l_hi * ripple_ceiling(c, k, l_lo)));
-    } else {
-        f = std::max(f, c.range.lo);
-    }
-    return f;
+} // namespace
+
+double band_at(const ScreenContext& c, const EnvelopeCorner& k, double band) {
+    if (!c.design->control.band_is_fraction || c.target <= 0.0 || k.current <= 0.0) return band;
+    return band * k.current / c.target;
 }
 
-// Switch transition, gate and output-capacitance energy per cycle (the converter's switching-loss
-// terms, Mohan §2-7 linearised), with the valley no lower than I - ΔI_max/2.
-double switch_energy_floor(const ScreenContext& c, const EnvelopeCorner& k, double di_max) {
-    const auto& sw = c.design->sw;
-    const double i = current_slack * k.current;
-    const double valley = std::max(0.0, i - di_max / 2.0);
-    return 0.5 * k.vin * (valley * sw.rise_time + i * sw.fall_time) + sw.gate_charge * sw.drive_voltage +
-           0.5 * sw.output_capacitance * k.vin * k.vin;
+double volt_second_rate(double von, double voff) {
+    return von + voff > 0.0 ? von * voff / (von + voff) : 0.0;
 }
 
-// The design's corners for a part of this tolerance (inductance scaled per corner).
 std::vector<EnvelopeCorner> part_corners(const ScreenContext& c, double tolerance) {
     std::vector<EnvelopeCorner> out;
     for (const auto& k : converter::make_corners(*c.design, tolerance))
-        out.push_back({k.name, k.vin, k.point.v0, k.point.r, k.point.current, k.ambient, k.l_scale});
+        out.push_back({k.name, k.vin, k.point.v0, k.point.r, k.point.current, k.ambient, k.l_scale,
+                       k.dcr_max, k.nominal, k.weight});
     return out;
 }
-
-} // namespace
 
 ScreenContext make_screen_context(const design::Design& d, const optimisation::SettingRange& r) {
     ScreenContext c;
     c.design = &d;
     c.range = r;
     for (const auto& k : converter::make_corners(d, 0.0)) {
-        EnvelopeCorner e{k.name, k.vin, k.point.v0, k.point.r, k.point.current, k.ambient, 1.0};
+        EnvelopeCorner e{k.name,    k.vin,   k.point.v0, k.point.r, k.point.current,
+                         k.ambient, 1.0,     k.dcr_max,  k.nominal, k.weight};
         c.vin_max = std::max(c.vin_max, e.vin);
         c.i_max = std::max(c.i_max, e.current);
         c.corners.push_back(std::move(e));
@@ -119,18 +99,22 @@ ScreenContext make_screen_context(const design::Design& d, const optimisation::S
     const double tc = std::max(0.0, d.sw.on_resistance_tempco);
     c.ron_hot = d.sw.on_resistance * (1.0 + tc * (t_hot - 298.15));
     c.target = loads::target_current(d.load);
-    // Pair-independent loss floor at each corner: sense resistor I²·Rs (I_rms >= I_avg) and
-    // switch conduction D·I²·Ron with D >= Vo/Vin (drops only lengthen the on-time) and Ron no
-    // lower than at the colder of the ambient and 25 °C.
-    double floor = INFINITY;
+    // Pair-independent loss at the nominal corner(s), weighted as the loss objective weighs them:
+    // sense resistor I²·Rs (I_rms >= I_avg) and switch conduction D·I²·R_on with D >= Vo/Vin
+    // (drops only lengthen the on-time) and R_on at the switch temperature the engine assumes.
+    double floor = 0.0, w_sum = 0.0;
     for (const auto& k : c.corners) {
-        if (k.vin <= 0.0) continue;
+        if (!k.nominal || k.vin <= 0.0) continue;
+        const double w = std::max(0.0, k.weight);
         const double i = current_slack * k.current;
         const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
-        const double ron = d.sw.on_resistance * (1.0 + tc * (std::min(k.ambient, 298.15) - 298.15));
-        floor = std::min(floor, i * i * (d.sense_resistor + duty * std::max(0.0, ron)));
+        const double t_sw = k.ambient + converter::switch_temperature_rise;
+        const double ron = std::max(0.0, d.sw.on_resistance * (1.0 + d.sw.on_resistance_tempco *
+                                                                         (t_sw - 298.15)));
+        floor += w * i * i * (std::max(0.0, d.sense_resistor) + duty * ron);
+        w_sum += w;
     }
-    c.loss_floor = std::isfinite(floor) ? loss_slack * floor : 0.0;
+    c.loss_floor = w_sum > 0.0 ? loss_slack * floor / w_sum : 0.0;
     return c;
 }
 
@@ -218,7 +202,8 @@ std::vector<ScreenReason> screen_inductor(const ScreenContext& c, const parts::I
     return out;
 }
 
-std::vector<ScreenReason> screen_diode(const ScreenContext& c, const parts::Diode& diode) {
+std::vector<ScreenReason> screen_diode(const ScreenContext& c, const parts::Diode& diode,
+                                       const parts::DiodeModel& m) {
     std::vector<ScreenReason> out;
     const auto& lim = c.design->limits;
     if (c.vin_max > lim.vrrm_derating * diode.vrrm)
@@ -244,86 +229,38 @@ std::vector<ScreenReason> screen_diode(const ScreenContext& c, const parts::Diod
                        "average current at least " + fmt(id_lb, u::Dimension::current) +
                            " exceeds " + fmt(lim.diode_current_derating, u::Dimension::ratio) +
                            " of If(AV) " + fmt(diode.if_avg, u::Dimension::current)});
+    // Junction temperature from below at every corner: conduction at least off·I·V_f,min and
+    // leakage at least I_R(Vin, Tj)·Vin·D with D >= Vo/Vin. The map Tj -> Ta + Rth·P(Tj) then rises
+    // with Tj, so its passes from the ambient stay below the engine's fixed point; one beyond the
+    // limit means no partner can keep this diode within it.
+    {
+        const double tj_bound = lim.tj_max ? std::min(m.tj_max, *lim.tj_max) : m.tj_max;
+        for (const auto& k : c.corners) {
+            if (k.vin <= 0.0 || k.current <= 0.0) continue;
+            const double i = current_slack * k.current;
+            const double vo = k.v0 + k.r * k.current;
+            const double duty = std::clamp(vo / k.vin, 0.0, 1.0);
+            const double off = duty_slack * (1.0 - duty);
+            const double vf = std::min(m.vf(i, k.ambient), m.vf(i, std::max(k.ambient, tj_bound)));
+            const double p_cond = off * i * std::max(0.0, vf);
+            double tj = k.ambient;
+            for (int pass = 0; pass < 30 && tj <= tj_bound; ++pass)
+                tj = k.ambient + m.rth_ja * (p_cond + m.leakage(k.vin, tj) * k.vin * duty);
+            if (tj > tj_bound) {
+                out.push_back({"tj_max", k.name, tj, tj_bound,
+                               "junction at least " + fmt(tj, u::Dimension::temperature) +
+                                   " at corner \"" + k.name + "\" (conduction and reverse "
+                                   "leakage alone), above the limit " +
+                                   fmt(tj_bound, u::Dimension::temperature)});
+                break;
+            }
+        }
+    }
     if (lim.height_max && diode.height > *lim.height_max)
         out.push_back({"height_max", "", diode.height, *lim.height_max,
                        "height " + fmt(diode.height, u::Dimension::length) +
                            " is above the limit " + fmt(*lim.height_max, u::Dimension::length)});
     return out;
-}
-
-InductorBound inductor_bound(const ScreenContext& c, const parts::Inductor& l,
-                             const parts::InductorModel& m) {
-    InductorBound b;
-    b.size = l.volume();
-    const auto corners = part_corners(c, l.tolerance);
-    double loss = INFINITY;
-    for (const auto& k : corners) {
-        // Copper loss >= I_avg²·R_dc at ambient (I_rms >= I_avg; copper only heats up).
-        const double i = current_slack * k.current;
-        double corner = i * i * m.dcr(k.ambient, false);
-        const double l_lo = m.l0 * k.l_scale * (1.0 - l.sat_drop);
-        const double di_max = hysteretic(c) && l_lo > 0.0 ? ripple_ceiling(c, k, l_lo) : 2.0 * i;
-        corner += switch_energy_floor(c, k, di_max) * frequency_floor(c, k, l, m.l0);
-        loss = std::min(loss, corner);
-    }
-    b.loss = std::isfinite(loss) ? loss_slack * std::max(0.0, loss) : 0.0;
-    const double peak_lb = peak_floor(c);
-    b.margin = l.isat > 0.0 ? 1.0 - peak_lb / l.isat : 0.0;
-    if (!c.design->output_capacitor && c.i_max > 0.0) {
-        if (hysteretic(c)) {
-            // The objective is the worst corner's ripple: at least the band, and at least
-            // g/(L_hi·f_sw_max) where the frequency limit forces a wider ripple.
-            double r = 0.0;
-            for (const auto& k : corners) {
-                const double l_hi = m.l0 * k.l_scale;
-                if (k.current <= 0.0) continue;
-                double di = band_lo(c, k);
-                const double von = von_floor(c, k, l.dcr_max);
-                if (c.design->limits.f_sw_max && von > 0.0)
-                    di = std::max(di, g_of(von, k.v0) / (l_hi * *c.design->limits.f_sw_max));
-                r = std::max(r, di / k.current);
-                // The peak is at least the average plus half that ripple.
-                if (l.isat > 0.0)
-                    b.margin = std::min(b.margin, 1.0 - current_slack * (k.current + di / 2.0) / l.isat);
-            }
-            b.ripple = current_slack * r;
-        } else {
-            double r = INFINITY;
-            for (const auto& k : corners) {
-                const double l_hi = m.l0 * k.l_scale;
-                const double von = von_floor(c, k, l.dcr_max);
-                if (von <= 0.0 || k.current <= 0.0) {
-                    r = 0.0;
-                    break;
-                }
-                r = std::min(r, g_of(von, k.v0) / (l_hi * c.range.hi) / k.current);
-            }
-            b.ripple = std::isfinite(r) ? current_slack * r : 0.0;
-        }
-    }
-    return b;
-}
-
-DiodeBound diode_bound(const ScreenContext& c, const parts::Diode& diode,
-                       const parts::DiodeModel& m) {
-    DiodeBound b;
-    b.size = diode.volume();
-    double loss = INFINITY;
-    for (const auto& k : c.corners) {
-        if (k.vin <= 0.0 || k.current <= 0.0) {
-            loss = 0.0;
-            break;
-        }
-        // Conduction: the mean of v_f(i)·i over the off-interval is at least v_f(ī)·ī (v_f·i is
-        // convex in i), taken at the temperature that gives the lower drop.
-        const double i = current_slack * k.current;
-        const double vo = k.v0 + k.r * k.current;
-        const double off = duty_slack * std::clamp(1.0 - vo / k.vin, 0.0, 1.0);
-        const double vf = std::min(m.vf(i, k.ambient), m.vf(i, std::max(t_hot, m.tj_max)));
-        loss = std::min(loss, off * i * std::max(0.0, vf));
-    }
-    b.loss = std::isfinite(loss) ? loss_slack * loss : 0.0;
-    return b;
 }
 
 } // namespace coilsieve::studies

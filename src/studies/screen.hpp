@@ -35,6 +35,9 @@ struct EnvelopeCorner {
     double current = 0.0;  // target average current
     double ambient = 0.0;  // K
     double l_scale = 1.0;  // the corner's inductance tolerance factor
+    bool dcr_max = false;  // the corner takes the maximum DCR
+    bool nominal = false;  // the loss objective is taken here
+    double weight = 0.0;   // its share of the loss objective (charge profile time)
 };
 
 struct ScreenContext {
@@ -46,33 +49,29 @@ struct ScreenContext {
     double target = 0.0;       // the design's target current (a band given as a fraction scales
                                // with each corner's current, as converter::corner_setting does)
     double ron_hot = 0.0;      // switch on-resistance at 175 °C junction (upper bound)
-    double loss_floor = 0.0;   // W: sense-resistor and switch conduction loss no pair avoids
+    double loss_floor = 0.0;   // W: sense-resistor and switch conduction loss no pair avoids,
+                               // at the nominal corner(s) as the loss objective weighs them
 };
+
+// The average current of a feasible pair is at least this share of its target (regulation error
+// of the comparator or of the duty solve; a necessary-condition allowance, common practice).
+constexpr double current_slack = 0.97;
+
+// The design's corners for a part of this inductance tolerance (inductance scaled per corner).
+std::vector<EnvelopeCorner> part_corners(const ScreenContext& c, double tolerance);
+// The band (A) at a corner for a setting `band` at the target current (a fractional band follows
+// the corner's current, as converter::corner_setting does).
+double band_at(const ScreenContext& c, const EnvelopeCorner& k, double band);
+// g = Von·Voff/(Von + Voff): the buck's volt-second product per unit time, f·L·ΔI = g
+// (volt-second balance, Erickson & Maksimović 2nd ed. ch. 2). Increasing in both arguments.
+double volt_second_rate(double von, double voff);
 
 // `range` is the setting range the tuner will use (fixed when --band/--frequency is given).
 ScreenContext make_screen_context(const design::Design& d, const optimisation::SettingRange& range);
 
 std::vector<ScreenReason> screen_inductor(const ScreenContext& c, const parts::Inductor& l,
                                           const parts::InductorModel& m);
-std::vector<ScreenReason> screen_diode(const ScreenContext& c, const parts::Diode& diode);
-
-// Per-part contributions to a pair's optimistic objective vector. The pair's lower bounds are
-// sums: loss >= inductor.loss + diode.loss, size exact, margin <= inductor.margin, ripple >=
-// inductor.ripple, cost exact.
-struct InductorBound {
-    double loss = 0.0;   // W, copper loss floor
-    double size = 0.0;
-    double margin = 1.0; // upper bound of the saturation margin
-    double ripple = 0.0; // lower bound of the load ripple fraction
-};
-struct DiodeBound {
-    double loss = 0.0;   // W, conduction loss floor
-    double size = 0.0;
-};
-
-InductorBound inductor_bound(const ScreenContext& c, const parts::Inductor& l,
-                             const parts::InductorModel& m);
-DiodeBound diode_bound(const ScreenContext& c, const parts::Diode& diode,
-                       const parts::DiodeModel& m);
+std::vector<ScreenReason> screen_diode(const ScreenContext& c, const parts::Diode& diode,
+                                       const parts::DiodeModel& m);
 
 } // namespace coilsieve::studies

@@ -1,0 +1,432 @@
+#include "studies/bounds.hpp"
+
+#include "converter/evaluate.hpp"
+#include "units/quantity.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <map>
+#include <numbers>
+#include <vector>
+
+namespace coilsieve::studies {
+
+namespace {
+
+namespace u = coilsieve::units;
+
+constexpr double diode_drop_max = 3.0; // V, a generous ceiling on a diode's forward drop
+constexpr double duty_slack = 0.75;    // (1 - D) >= 0.75 (1 - Vo/Vin): drops the ideal duty ignores
+constexpr int first_intervals = 12;    // initial split of the setting range
+constexpr int max_refinements = 40;    // interval halvings around the minimum
+constexpr double refine_tolerance = 2e-4; // stop when the bound can rise no more than this (score)
+
+bool hysteretic(const ScreenContext& c) {
+    return c.design->control.mode == design::ControlMode::hysteretic;
+}
+
+// What an inductor brings to every corner, independent of the setting.
+struct CornerParts {
+    const EnvelopeCorner* k = nullptr;
+    double l_hi = 0.0;     // H: largest inductance (no roll-off)
+    double r_on_ub = 0.0;  // Ω: switch + sense + hot DCR, the on-path resistance at most
+    double r_off_ub = 0.0; // Ω: sense + hot DCR, the off-path resistance at most
+    double r_off_lb = 0.0; // Ω: sense + DCR at the ambient, the off-path resistance at least
+    double l_lo_cap = 0.0; // H: inductance at the Isat limit
+    double ron = 0.0;      // Ω: switch at the temperature the engine assumes
+    bool capacitor = false;
+    double cap = 0.0, esr = 0.0; // F, Ω of the output capacitor when it takes ripple
+};
+
+// Share of the inductor's ripple that reaches the load at frequency f: the current divider of the
+// load resistance r and the capacitor branch ESR + 1/(jωC) (falls as f rises).
+double load_share(double r, double cap, double esr, double f) {
+    if (!(cap > 0.0) || !(r > 0.0)) return 1.0;
+    if (!std::isfinite(f)) return esr / (esr + r);
+    const double x = 1.0 / (2.0 * std::numbers::pi * f * cap);
+    return std::sqrt((esr * esr + x * x) / ((esr + r) * (esr + r) + x * x));
+}
+
+// Bounds of the figures over a setting interval [x1, x2] (a degenerate one gives a point value).
+struct Interval {
+    double x1 = 0.0, x2 = 0.0;
+    bool feasible = true;
+    std::string closed_by; // the first limit it cannot meet
+    double score = 0.0;
+    double loss = 0.0;       // nominal, inductor copper + core + switch transitions
+    double ripple = 0.0;     // worst corner, fraction
+    double peak_ratio = 0.0; // worst corner, peak / Isat
+    double f_nominal = 0.0;  // Hz, nominal (weighted) frequency at least
+    double f_valley_v = 0.0; // nominal (weighted) f·i_valley·Vin at least
+};
+
+class InductorBounder {
+public:
+    InductorBounder(const ScreenContext& c, const parts::Inductor& l, const parts::InductorModel& m,
+                    const optimisation::Scales& s)
+        : c_(c), d_(*c.design), l_(l), m_(m), s_(s), corners_(part_corners(c, l.tolerance)) {
+        const auto& lim = d_.limits;
+        peak_cap_ = lim.isat_derating * m.isat;
+        t_l_bound_ = lim.t_inductor_max ? std::min(m.t_max, *lim.t_inductor_max) : m.t_max;
+        const double dcr_ub = m.dcr(std::max(t_l_bound_, 0.0), true);
+        const double cap = d_.output_capacitor ? d_.output_capacitor->capacitance : 0.0;
+        for (const auto& k : corners_) {
+            CornerParts p;
+            p.k = &k;
+            p.l_hi = m.l0 * k.l_scale;
+            p.l_lo_cap = m.inductance(std::max(0.0, peak_cap_), k.l_scale);
+            const double t_sw = k.ambient + converter::switch_temperature_rise;
+            p.ron = std::max(0.0, d_.sw.on_resistance *
+                                      (1.0 + d_.sw.on_resistance_tempco * (t_sw - 298.15)));
+            const double rs = std::max(0.0, d_.sense_resistor);
+            p.r_on_ub = p.ron + rs + dcr_ub;
+            p.r_off_ub = rs + dcr_ub;
+            p.r_off_lb = rs + std::max(0.0, m.dcr(k.ambient, false));
+            p.capacitor = cap > 0.0 && k.r > 0.0;
+            p.cap = cap;
+            p.esr = d_.output_capacitor ? std::max(0.0, d_.output_capacitor->esr) : 0.0;
+            parts_.push_back(p);
+        }
+    }
+
+    double value_at(double u) const {
+        const auto& r = c_.range;
+        u = std::clamp(u, 0.0, 1.0);
+        if (r.log_scale && r.lo > 0.0) return r.lo * std::pow(r.hi / r.lo, u);
+        return r.lo + (r.hi - r.lo) * u;
+    }
+
+    Interval evaluate(double x1, double x2) const {
+        Interval iv;
+        iv.x1 = x1;
+        iv.x2 = x2;
+        const auto& lim = d_.limits;
+        const auto& sw = d_.sw;
+        const double td = std::max(0.0, d_.control.delay);
+        double loss_sum = 0.0, f_sum = 0.0, fv_sum = 0.0, w_sum = 0.0;
+        auto close = [&](const char* limit) {
+            if (iv.feasible) iv.closed_by = limit;
+            iv.feasible = false;
+        };
+        for (const auto& p : parts_) {
+            const EnvelopeCorner& k = *p.k;
+            const double i_target = k.current;
+            if (!(i_target > 0.0) || !(k.vin > 0.0)) continue;
+            // Ceilings first: the peak, then the voltages it implies. L(i) falls with |i|, so along
+            // a ramp L >= L(peak) >= L(peak ceiling); two passes tighten the pair.
+            const double von_ub = std::max(0.0, k.vin - k.v0);
+            double b1 = 0.0, b2 = 0.0;
+            double peak_ub = std::max(0.0, peak_cap_);
+            double l_lo = p.l_lo_cap;
+            double voff_ub = 0.0;
+            if (hysteretic(c_)) {
+                b1 = band_at(c_, k, x1);
+                b2 = band_at(c_, k, x2);
+            }
+            for (int pass = 0; pass < 2; ++pass) {
+                if (hysteretic(c_))
+                    peak_ub = std::min(peak_ub, i_target + b2 / 2.0 + td * von_ub / l_lo);
+                l_lo = std::max(l_lo, m_.inductance(peak_ub, k.l_scale));
+            }
+            voff_ub = k.v0 + k.r * peak_ub + diode_drop_max + peak_ub * p.r_off_ub;
+            const double von_lb =
+                std::max(0.0, k.vin - (k.v0 + k.r * peak_ub) - peak_ub * p.r_on_ub);
+            const double g_ub = volt_second_rate(von_ub, voff_ub);
+
+            double i_lb = 0.0, i_ub = 0.0, peak_lb = 0.0, valley_lb = 0.0;
+            double di_lb = 0.0, f_lb = 0.0, f_ub = INFINITY;
+            bool dcm_certain = false; // the valley cannot stay above zero
+            if (hysteretic(c_)) {
+                // The comparator trips at I ± b/2; the switch follows t_d later, so the peak is
+                // i_hi + ∫v_on/L over t_d and the valley i_lo − ∫v_off/L (clamped at zero, DCM).
+                const double valley_min = i_target - b2 / 2.0 - td * voff_ub / l_lo;
+                valley_lb = std::max(0.0, valley_min);
+                // Along the cycle the current stays above the valley, so L <= L(valley).
+                const double l_hi = m_.inductance(valley_lb, k.l_scale);
+                // V_off = v0 + (r + R_s + DCR)·i + V_f(i) >= its resistive part at the valley.
+                const double voff_lb = std::max(0.0, k.v0 + valley_lb * (k.r + p.r_off_lb));
+                const double g_lb = volt_second_rate(von_lb, voff_lb);
+                peak_lb = i_target + b1 / 2.0 + td * von_lb / l_hi;
+                di_lb = std::min(b1 + td * (von_lb + voff_lb) / l_hi, peak_lb);
+                const double di_ub = b2 + td * (von_ub + voff_ub) / l_lo;
+                // t_on + t_off <= L_hi·ΔI·(1/Von_min + 1/Voff_min); DCM adds a rest of at most t_d.
+                if (g_lb > 0.0 && di_ub > 0.0)
+                    f_lb = 1.0 / (l_hi * di_ub / g_lb + (valley_min < 0.0 ? td : 0.0));
+                if (di_lb > 0.0 && g_ub > 0.0) f_ub = g_ub / (l_lo * di_lb);
+                // The mean sits near (peak + valley)/2 = I + t_d·(Von − Voff)/(2L).
+                const double skew_lo = td * (von_lb - voff_ub) / 2.0;
+                const double skew_hi = td * (von_ub - voff_lb) / 2.0;
+                i_lb = current_slack *
+                       std::max(0.0, i_target + skew_lo / (skew_lo < 0.0 ? l_lo : l_hi));
+                i_ub = (i_target + std::max(0.0, skew_hi) / l_lo) / current_slack;
+            } else {
+                // PWM: the flux swing per cycle is T·g(Von, Voff) in CCM (volt-second balance,
+                // Erickson & Maksimović 2nd ed. ch. 2) and ΔI >= ΔΨ/L_hi. In DCM the flux balance
+                // still holds and the charge I·T = ∫i·L(1/Von + 1/Voff) di <= L_hi·ΔI²/(2g), so
+                // ΔI >= sqrt(2·I·g·T/L_hi) (ibid. ch. 5).
+                i_lb = current_slack * i_target;
+                i_ub = i_target / current_slack;
+                const double g_lb = volt_second_rate(von_lb, std::max(0.0, k.v0));
+                const double di_ccm = g_lb / (p.l_hi * x2);
+                di_lb = std::min(di_ccm, std::sqrt(2.0 * i_lb * di_ccm));
+                dcm_certain = di_ccm > 2.0 * i_ub;
+                const double di_ub = g_ub / (l_lo * x1);
+                peak_lb = i_lb;
+                valley_lb = std::max(0.0, i_lb - di_ub);
+                f_lb = x1;
+                f_ub = x2;
+            }
+
+            // Limits any feasible pair meets at every corner.
+            if (peak_lb > peak_cap_) close("isat");
+            if (lim.f_sw_max && f_lb > *lim.f_sw_max) close("f_sw_max");
+            if (f_ub < lim.f_sw_min) close("f_sw_min");
+            // Load ripple: with a capacitor, the load's share of the ripple's fundamental. A
+            // triangle of p-p ΔI with rise fraction D has a fundamental of amplitude
+            // ΔI·sin(πD)/(π²·D·(1 − D)) >= ΔI/π (the least as D -> 0 or 1), a waveform's p-p is
+            // at least π/2 times its fundamental (the square wave is the extreme), and the divider
+            // is linear: p-p >= share(f_max)·ΔI/2. In DCM the engine takes the load ripple as
+            // share·ΔI (its fundamental path, converter/steady_state.cpp).
+            const double load_di = p.capacitor ? (dcm_certain ? 1.0 : 0.5) *
+                                                     load_share(k.r, p.cap, p.esr, f_ub) * di_lb
+                                               : di_lb;
+            if (lim.load_ripple && load_di / i_target > *lim.load_ripple) close("load_ripple");
+            iv.ripple = std::max(iv.ripple, load_di / i_ub);
+            if (m_.isat > 0.0) iv.peak_ratio = std::max(iv.peak_ratio, peak_lb / m_.isat);
+
+            // Inductor heating (T_L = T_a + R_th·(copper + core), as the engine has it) from below:
+            // each pass of the map from the ambient stays below its fixed point.
+            const double core = m_.core.alpha >= 1.0 ? m_.core_loss(di_lb, f_lb, 0.5) : 0.0;
+            double t_l = k.ambient, copper = 0.0;
+            for (int pass = 0; pass < 3; ++pass) {
+                copper = i_lb * i_lb * m_.dcr(t_l, k.dcr_max);
+                t_l = k.ambient + m_.rth * (copper + core);
+            }
+            if (t_l > t_l_bound_) close("t_inductor");
+            if (!k.nominal) continue;
+            // Switch transitions (Mohan, Undeland, Robbins 3rd ed. §2-7), gate and C_oss.
+            const double e_sw = 0.5 * k.vin * (valley_lb * sw.rise_time + peak_lb * sw.fall_time) +
+                                sw.gate_charge * sw.drive_voltage +
+                                0.5 * sw.output_capacitance * k.vin * k.vin;
+            const double w = std::max(0.0, k.weight);
+            loss_sum += w * (copper + core + e_sw * f_lb);
+            f_sum += w * f_lb;
+            fv_sum += w * f_lb * valley_lb * k.vin;
+            w_sum += w;
+        }
+        if (w_sum > 0.0) {
+            iv.loss = loss_sum / w_sum;
+            iv.f_nominal = f_sum / w_sum;
+            iv.f_valley_v = fv_sum / w_sum;
+        }
+        const auto& wt = d_.weights;
+        const double margin_term = m_.isat > 0.0 ? iv.peak_ratio : 1.0;
+        iv.score = wt.loss * (iv.loss + c_.loss_floor) / s_.power +
+                   wt.size * l_.volume() / s_.volume + wt.ripple * iv.ripple / s_.ripple +
+                   wt.margin * margin_term;
+        return iv;
+    }
+
+    InductorBound run() const {
+        InductorBound b;
+        b.size = l_.volume();
+        const auto& r = c_.range;
+        std::vector<std::pair<double, double>> spans; // in u
+        std::vector<Interval> ivs;
+        if (!(r.hi > r.lo)) {
+            ivs.push_back(evaluate(r.lo, r.lo));
+        } else {
+            for (int i = 0; i < first_intervals; ++i) {
+                const double u1 = static_cast<double>(i) / first_intervals;
+                const double u2 = static_cast<double>(i + 1) / first_intervals;
+                spans.emplace_back(u1, u2);
+                ivs.push_back(evaluate(value_at(u1), value_at(u2)));
+            }
+            // Halve the interval holding the minimum until its midpoint's value is within the
+            // tolerance of the bound (the bound function cannot rise further there).
+            for (int n = 0; n < max_refinements; ++n) {
+                std::size_t best = ivs.size();
+                for (std::size_t i = 0; i < ivs.size(); ++i)
+                    if (ivs[i].feasible && (best == ivs.size() || ivs[i].score < ivs[best].score))
+                        best = i;
+                if (best == ivs.size()) break;
+                const double um = 0.5 * (spans[best].first + spans[best].second);
+                const double xm = value_at(um);
+                const Interval mid = evaluate(xm, xm);
+                if (mid.feasible && mid.score - ivs[best].score < refine_tolerance) break;
+                const auto [u1, u2] = spans[best];
+                spans[best] = {u1, um};
+                ivs[best] = evaluate(value_at(u1), xm);
+                spans.emplace_back(um, u2);
+                ivs.push_back(evaluate(xm, value_at(u2)));
+            }
+        }
+        bool any = false;
+        std::map<std::string, int> closed;
+        for (const auto& iv : ivs) {
+            if (!iv.feasible) {
+                ++closed[iv.closed_by];
+                continue;
+            }
+            b.stretches.push_back({iv.x1, iv.x2, iv.score, iv.loss, iv.f_nominal, iv.f_valley_v});
+            if (!any) {
+                b.score = iv.score;
+                b.loss = iv.loss;
+                b.ripple = iv.ripple;
+                b.margin = 1.0 - iv.peak_ratio;
+                b.f_min = iv.f_nominal;
+                any = true;
+                continue;
+            }
+            b.score = std::min(b.score, iv.score);
+            b.loss = std::min(b.loss, iv.loss);
+            b.ripple = std::min(b.ripple, iv.ripple);
+            b.margin = std::max(b.margin, 1.0 - iv.peak_ratio);
+            b.f_min = std::min(b.f_min, iv.f_nominal);
+        }
+        if (!(m_.isat > 0.0)) b.margin = 0.0;
+        if (!any) {
+            b.feasible = false;
+            std::string limit, list;
+            int most = -1;
+            for (const auto& [name, n] : closed) {
+                if (n > most) {
+                    most = n;
+                    limit = name;
+                }
+                list += (list.empty() ? "" : ", ") + name;
+            }
+            const bool band = hysteretic(c_);
+            const auto dim = band ? u::Dimension::current : u::Dimension::frequency;
+            b.window = ScreenReason{
+                limit.empty() ? std::string("setting_window") : limit, "", r.lo, r.hi,
+                std::string("no ") + (band ? "band" : "frequency") + " from " +
+                    u::format(r.lo, dim) + " to " + u::format(r.hi, dim) +
+                    " can meet the limits at every corner with any diode (closed by " + list + ")"};
+        }
+        return b;
+    }
+
+private:
+    const ScreenContext& c_;
+    const design::Design& d_;
+    const parts::Inductor& l_;
+    const parts::InductorModel& m_;
+    const optimisation::Scales& s_;
+    std::vector<EnvelopeCorner> corners_;
+    std::vector<CornerParts> parts_;
+    double peak_cap_ = 0.0;
+    double t_l_bound_ = 0.0;
+};
+
+} // namespace
+
+InductorBound inductor_bound(const ScreenContext& c, const parts::Inductor& l,
+                             const parts::InductorModel& m, const optimisation::Scales& s) {
+    return InductorBounder(c, l, m, s).run();
+}
+
+DiodeBound diode_bound(const ScreenContext& c, const parts::Diode& diode,
+                       const parts::DiodeModel& m, const optimisation::Scales& s) {
+    DiodeBound b;
+    b.size = diode.volume();
+    const auto& lim = c.design->limits;
+    const double tj_bound = lim.tj_max ? std::min(m.tj_max, *lim.tj_max) : m.tj_max;
+    double loss = 0.0, e_sw = 0.0, w_sum = 0.0;
+    for (const auto& k : c.corners) {
+        if (!k.nominal) continue;
+        const double w = std::max(0.0, k.weight);
+        w_sum += w;
+        if (k.vin <= 0.0 || k.current <= 0.0) continue;
+        // Conduction: the mean of v_f(i)·i over the off-interval is at least v_f(ī)·ī (v_f·i is
+        // convex in i). V_f is concave in temperature (SPICE diode law), so its least value over
+        // [ambient, Tj limit] is at an end.
+        const double i = current_slack * k.current;
+        const double vo = k.v0 + k.r * k.current;
+        const double off = duty_slack * std::clamp(1.0 - vo / k.vin, 0.0, 1.0);
+        const double vf = std::min(m.vf(i, k.ambient), m.vf(i, std::max(k.ambient, tj_bound)));
+        const double p_cond = off * i * std::max(0.0, vf);
+        // Leakage while the switch is on (D >= Vo/Vin) at a junction no cooler than the map
+        // Tj -> Ta + Rth·(conduction + leakage(Tj)) reaches from the ambient (it rises with Tj).
+        const double duty = std::clamp(vo / k.vin, 0.0, 1.0);
+        double tj = k.ambient, leak = 0.0;
+        for (int pass = 0; pass < 4; ++pass) {
+            leak = m.leakage(k.vin, tj) * k.vin * duty;
+            tj = std::min(tj_bound, k.ambient + m.rth_ja * (p_cond + leak));
+        }
+        loss += w * (p_cond + leak);
+        // Junction charge lost each cycle (the engine's diode switching term without recovery).
+        e_sw += w * m.capacitive_energy(k.vin);
+    }
+    if (w_sum > 0.0) {
+        b.loss = loss / w_sum;
+        b.e_switch = e_sw / w_sum;
+    }
+    b.qrr_per_amp = m.qrr_ref > 0.0 && m.if_ref > 0.0 ? m.qrr_ref / m.if_ref : std::max(0.0, m.tt);
+    const auto& wt = c.design->weights;
+    b.score = wt.loss * b.loss / s.power + wt.size * b.size / s.volume;
+    return b;
+}
+
+namespace {
+
+// The diode's switching loss over a stretch: junction charge and recovery Q_rr = q·i_valley, each
+// lost once a cycle (the engine's diode switching term).
+double diode_switching(const SettingStretch& s, const DiodeBound& d) {
+    return d.e_switch * s.f + d.qrr_per_amp * s.f_valley_v;
+}
+
+} // namespace
+
+double pair_score_bound(const ScreenContext& c, const InductorBound& l, const DiodeBound& d,
+                        const optimisation::Scales& s) {
+    const double k = c.design->weights.loss / s.power;
+    double best = l.stretches.empty() ? l.score : INFINITY;
+    for (const auto& st : l.stretches) best = std::min(best, st.score + k * diode_switching(st, d));
+    return best + d.score;
+}
+
+optimisation::Objectives pair_optimistic(const ScreenContext& c, const InductorBound& l,
+                                         const DiodeBound& d) {
+    optimisation::Objectives o;
+    double loss = l.stretches.empty() ? l.loss : INFINITY;
+    for (const auto& st : l.stretches) loss = std::min(loss, st.loss + diode_switching(st, d));
+    o.loss = loss + d.loss + c.loss_floor;
+    o.size = l.size + d.size;
+    o.ripple = l.ripple;
+    o.margin = l.margin;
+    return o;
+}
+
+double pair_loss_within(const ScreenContext& c, const InductorBound& l, const DiodeBound& d,
+                        const optimisation::Scales& s, double score_cap) {
+    const double k = c.design->weights.loss / s.power;
+    // Round-off in the score sum must not exclude the stretch the tuned point lies in.
+    const double cap = score_cap + 1e-9 * (1.0 + std::abs(score_cap));
+    double loss = INFINITY;
+    for (const auto& st : l.stretches) {
+        const double sw = diode_switching(st, d);
+        if (st.score + k * sw + d.score <= cap) loss = std::min(loss, st.loss + sw);
+    }
+    if (!std::isfinite(loss)) return pair_optimistic(c, l, d).loss;
+    return loss + d.loss + c.loss_floor;
+}
+
+std::optional<double> pair_best_setting(const ScreenContext& c, const InductorBound& l,
+                                        const DiodeBound& d, const optimisation::Scales& s) {
+    const double k = c.design->weights.loss / s.power;
+    const SettingStretch* best = nullptr;
+    double best_v = INFINITY;
+    for (const auto& st : l.stretches) {
+        const double v = st.score + k * diode_switching(st, d);
+        if (v < best_v) {
+            best_v = v;
+            best = &st;
+        }
+    }
+    if (best == nullptr) return std::nullopt;
+    if (c.range.log_scale && best->x1 > 0.0) return std::sqrt(best->x1 * best->x2);
+    return 0.5 * (best->x1 + best->x2);
+}
+
+} // namespace coilsieve::studies

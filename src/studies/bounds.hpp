@@ -1,0 +1,81 @@
+#pragma once
+// Per-part lower bounds of a pair's score and objectives, for pruning without changing the answer.
+//
+// A bound needs to hold only for a pair's feasible settings (an infeasible pair is never listed):
+// the peak stays within isat_derating·Isat, so L(i) >= L(derating·Isat); the inductor stays below
+// its temperature limit, which caps its DCR; the frequency and ripple limits hold at every corner.
+// Over the free setting x (the band, or the PWM frequency) each figure is bounded on an interval
+// [x1, x2] by monotone pieces (ripple from x1, frequency from x2, ...), and the inductor's share of
+// the score is minimised over intervals refined where the minimum lies. The sum over a pair's two
+// parts is then a lower bound of what the tuner can reach.
+
+#include "design/design.hpp"
+#include "optimisation/objectives.hpp"
+#include "parts/diode.hpp"
+#include "parts/diode_model.hpp"
+#include "parts/inductor.hpp"
+#include "parts/inductor_model.hpp"
+#include "studies/screen.hpp"
+
+#include <optional>
+#include <vector>
+
+namespace coilsieve::studies {
+
+// One stretch of the setting range with the inductor's bounds over it (feasible stretches only).
+struct SettingStretch {
+    double x1 = 0.0, x2 = 0.0; // the stretch of the free variable (A or Hz)
+    double score = 0.0;        // the inductor's share of the score (incl. switch and sense loss)
+    double loss = 0.0;         // W, nominal: copper, core and switch transitions
+    double f = 0.0;            // Hz, nominal switching frequency at least (weighted as the loss)
+    double f_valley_v = 0.0;   // f·i_valley·Vin at least (W/C): recovery loss per C/A of Qrr
+};
+
+struct InductorBound {
+    // false: no setting in range can meet the limits with any diode (`window` says why).
+    bool feasible = true;
+    double score = 0.0;  // the inductor's share of the score, minimised jointly over the setting
+                         // (includes the pair-independent switch and sense loss)
+    double loss = 0.0;   // W at the nominal corner(s): copper, core and switch transitions, no
+                         // diode; the smallest over the setting
+    double size = 0.0;   // m^3, exact
+    double margin = 1.0; // upper bound of the saturation margin
+    double ripple = 0.0; // lower bound of the load ripple fraction
+    double f_min = 0.0;  // Hz, lowest nominal switching frequency a feasible setting gives
+    std::vector<SettingStretch> stretches; // for the pair bounds with a diode's switching loss
+    std::optional<ScreenReason> window;    // set when !feasible
+};
+
+struct DiodeBound {
+    double score = 0.0;       // the diode's share of the score (its conduction loss and size)
+    double loss = 0.0;        // W, conduction loss floor at the nominal corner(s)
+    double size = 0.0;        // m^3, exact
+    double e_switch = 0.0;    // J per cycle of junction-charge loss at the nominal Vin
+    double qrr_per_amp = 0.0; // C/A: recovery charge per ampere of forward current
+};
+
+InductorBound inductor_bound(const ScreenContext& c, const parts::Inductor& l,
+                             const parts::InductorModel& m, const optimisation::Scales& s);
+DiodeBound diode_bound(const ScreenContext& c, const parts::Diode& diode,
+                       const parts::DiodeModel& m, const optimisation::Scales& s);
+
+// A pair's score lower bound without its cost term (cost is exact and added by the caller): the
+// two shares plus the diode's switching loss, minimised jointly over the inductor's stretches.
+double pair_score_bound(const ScreenContext& c, const InductorBound& l, const DiodeBound& d,
+                        const optimisation::Scales& s);
+// A pair's optimistic objective vector (loss, size, ripple, margin; cost left empty).
+optimisation::Objectives pair_optimistic(const ScreenContext& c, const InductorBound& l,
+                                         const DiodeBound& d);
+
+// A tighter loss bound once the pair's tuned score (without its cost term) is known to be at most
+// `score_cap` (e.g. the score of a pre-scan point the tuner also visits): the tuned setting lies
+// where the pair's score bound is below the cap, and the loss there is at least the result.
+double pair_loss_within(const ScreenContext& c, const InductorBound& l, const DiodeBound& d,
+                        const optimisation::Scales& s, double score_cap);
+
+// Where the pair's score bound is least: the middle of that stretch (geometric on a log scale).
+// The tuner starts there too, so a probe at this value bounds the tuned score from above.
+std::optional<double> pair_best_setting(const ScreenContext& c, const InductorBound& l,
+                                        const DiodeBound& d, const optimisation::Scales& s);
+
+} // namespace coilsieve::studies

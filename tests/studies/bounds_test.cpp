@@ -1,0 +1,166 @@
+// The pruning bounds of studies/bounds.hpp checked against the engine itself on the starter
+// catalog, for both example designs. The pruned == exhaustive test (starter_test.cpp) cannot see a
+// wrong screen, because both runs screen alike; these tests can:
+// - a part screened out because no setting in range can meet the limits is infeasible at every
+//   setting of a dense scan, with every diode (or inductor) of a sample;
+// - at every setting of the scan where a pair is feasible, the stretch bounds hold pointwise:
+//   score bound <= score and optimistic loss <= loss;
+// - the probe's restricted loss bound, capped at a feasible point's own score, is still below the
+//   loss there (the tuned point is no worse than the probe, so it lies in the region).
+// The references are the engine's own evaluations (converter::evaluate_pair); the bounds are
+// independent inequalities (volt-second balance, Erickson & Maksimović 2nd ed. ch. 2 and 5).
+#include "catalog/store.hpp"
+#include "converter/evaluate.hpp"
+#include "design/design_json.hpp"
+#include "optimisation/objectives.hpp"
+#include "optimisation/tune.hpp"
+#include "studies/bounds.hpp"
+#include "studies/screen.hpp"
+
+#include <cmath>
+#include <gtest/gtest.h>
+#include <string>
+
+using namespace coilsieve;
+
+namespace {
+
+const catalog::PartLists& starter() {
+    static const catalog::PartLists s = catalog::starter_parts();
+    return s;
+}
+
+// Evenly spread samples of a list (deterministic).
+template <class T> std::vector<std::size_t> sample(const std::vector<T>& v, std::size_t n) {
+    std::vector<std::size_t> out;
+    if (v.empty()) return out;
+    const std::size_t step = std::max<std::size_t>(1, v.size() / n);
+    for (std::size_t i = 0; i < v.size() && out.size() < n; i += step) out.push_back(i);
+    return out;
+}
+
+struct Case {
+    design::Design d;
+    optimisation::SettingRange range;
+    optimisation::Scales scales;
+    studies::ScreenContext ctx;
+    converter::Setting base;
+    std::vector<double> scan; // dense values of the free variable
+
+    explicit Case(const std::string& file)
+        : d(design::load_design_file(std::string(COILSIEVE_SOURCE_DIR) + "/data/examples/" + file)),
+          range(optimisation::setting_range(d)), scales(optimisation::make_scales(d)),
+          ctx(studies::make_screen_context(d, range)), base(converter::default_setting(d)) {
+        optimisation::TuneOptions o;
+        o.prescan_points = 41;
+        scan = optimisation::prescan_values(range, o);
+    }
+};
+
+class Bounds : public ::testing::TestWithParam<std::string> {};
+
+} // namespace
+
+TEST_P(Bounds, WindowScreenedInductorsAreInfeasibleEverywhere) {
+    Case s(GetParam());
+    const auto& k = starter();
+    std::vector<std::size_t> windowed;
+    for (std::size_t i = 0; i < k.inductors.size(); ++i) {
+        const auto m = parts::make_model(k.inductors[i]);
+        if (!studies::screen_inductor(s.ctx, k.inductors[i], m).empty()) continue;
+        if (studies::inductor_bound(s.ctx, k.inductors[i], m, s.scales).window)
+            windowed.push_back(i);
+    }
+    ASSERT_FALSE(windowed.empty()) << "the example should exercise the window screen";
+    std::vector<std::size_t> diodes;
+    for (std::size_t j : sample(k.diodes, 12)) {
+        const auto dm = parts::make_model(k.diodes[j]);
+        if (studies::screen_diode(s.ctx, k.diodes[j], dm).empty()) diodes.push_back(j);
+    }
+    ASSERT_FALSE(diodes.empty());
+    std::size_t checked = 0;
+    for (std::size_t n = 0; n < windowed.size() && checked < 40;
+         n += std::max<std::size_t>(1, windowed.size() / 40), ++checked) {
+        const auto& l = k.inductors[windowed[n]];
+        for (std::size_t j : diodes)
+            for (double x : s.scan) {
+                const auto e = converter::evaluate_pair(
+                    s.d, l, k.diodes[j], optimisation::make_setting(s.range, s.base, x));
+                EXPECT_FALSE(e.feasible) << l.id << " with " << k.diodes[j].id << " at " << x;
+            }
+    }
+}
+
+TEST_P(Bounds, JunctionScreenedDiodesAreInfeasibleEverywhere) {
+    Case s(GetParam());
+    const auto& k = starter();
+    std::vector<std::size_t> hot;
+    for (std::size_t j = 0; j < k.diodes.size(); ++j) {
+        const auto dm = parts::make_model(k.diodes[j]);
+        for (const auto& r : studies::screen_diode(s.ctx, k.diodes[j], dm))
+            if (r.limit == "tj_max") {
+                hot.push_back(j);
+                break;
+            }
+    }
+    std::vector<std::size_t> inductors;
+    for (std::size_t i : sample(k.inductors, 60)) {
+        const auto m = parts::make_model(k.inductors[i]);
+        if (studies::screen_inductor(s.ctx, k.inductors[i], m).empty() &&
+            !studies::inductor_bound(s.ctx, k.inductors[i], m, s.scales).window)
+            inductors.push_back(i);
+    }
+    for (std::size_t n = 0; n < hot.size() && n < 20; ++n)
+        for (std::size_t i : inductors)
+            for (std::size_t q = 0; q < s.scan.size(); q += 4) {
+                const auto e = converter::evaluate_pair(
+                    s.d, k.inductors[i], k.diodes[hot[n]],
+                    optimisation::make_setting(s.range, s.base, s.scan[q]));
+                EXPECT_FALSE(e.feasible) << k.inductors[i].id << " with " << k.diodes[hot[n]].id;
+            }
+}
+
+TEST_P(Bounds, StretchBoundsHoldAtEveryFeasibleSetting) {
+    Case s(GetParam());
+    const auto& k = starter();
+    const auto& w = s.d.weights;
+    std::size_t feasible_points = 0;
+    for (std::size_t i : sample(k.inductors, 150)) {
+        const auto& l = k.inductors[i];
+        const auto m = parts::make_model(l);
+        if (!studies::screen_inductor(s.ctx, l, m).empty()) continue;
+        const auto lb = studies::inductor_bound(s.ctx, l, m, s.scales);
+        if (lb.window) continue;
+        for (std::size_t j : sample(k.diodes, 25)) {
+            const auto& di = k.diodes[j];
+            const auto dm = parts::make_model(di);
+            if (!studies::screen_diode(s.ctx, di, dm).empty()) continue;
+            const auto db = studies::diode_bound(s.ctx, di, dm, s.scales);
+            const auto scorer = optimisation::make_scorer(l, di, w, s.scales);
+            const double cost = l.price && di.price && w.cost > 0.0
+                                    ? w.cost * (*l.price + *di.price) / s.scales.cost
+                                    : 0.0;
+            const double pair_bound = studies::pair_score_bound(s.ctx, lb, db, s.scales) + cost;
+            const double loss_bound = studies::pair_optimistic(s.ctx, lb, db).loss;
+            for (double x : s.scan) {
+                const auto setting = optimisation::make_setting(s.range, s.base, x);
+                const auto p = scorer(setting, converter::evaluate_pair(s.d, l, di, setting));
+                if (!p.evaluation.feasible) continue;
+                ++feasible_points;
+                const std::string at = l.id + " with " + di.id + " at " + std::to_string(x);
+                EXPECT_LE(pair_bound, p.score) << at;
+                EXPECT_LE(loss_bound, p.objectives.loss) << at;
+                EXPECT_LE(lb.ripple, p.objectives.ripple + 1e-12) << at;
+                EXPECT_GE(lb.margin, p.objectives.margin - 1e-12) << at;
+                // Capped at this point's own score, the region still holds this point.
+                EXPECT_LE(studies::pair_loss_within(s.ctx, lb, db, s.scales, p.score - cost),
+                          p.objectives.loss)
+                    << at;
+            }
+        }
+    }
+    EXPECT_GT(feasible_points, 100u) << "too few feasible points to check the bounds";
+}
+
+INSTANTIATE_TEST_SUITE_P(Examples, Bounds,
+                         ::testing::Values("reading-lamp.json", "two-cell-charger.json"));
