@@ -185,11 +185,36 @@ void apply_weight(design::Design& d, std::string_view spec) {
                          "\"; known: loss, size, ripple, margin, cost");
 }
 
+void apply_pareto(design::Design& d, std::string_view list) {
+    const std::string text(list);
+    std::vector<design::Objective> axes;
+    std::size_t start = 0;
+    while (start <= text.size()) {
+        const auto comma = text.find(',', start);
+        const std::string name =
+            trim(text.substr(start, comma == std::string::npos ? std::string::npos : comma - start));
+        const auto o = design::objective_from_name(name);
+        if (!o)
+            throw UsageError("--pareto \"" + text + "\": unknown objective \"" + name +
+                             "\"; known: loss, size, ripple, margin, cost");
+        if (std::find(axes.begin(), axes.end(), *o) != axes.end())
+            throw UsageError("--pareto \"" + text + "\": \"" + name + "\" is listed twice");
+        axes.push_back(*o);
+        if (comma == std::string::npos) break;
+        start = comma + 1;
+    }
+    if (axes.size() < 2)
+        throw UsageError("--pareto \"" + text + "\": give at least two objectives, e.g. "
+                         "loss,size,ripple");
+    d.pareto = std::move(axes);
+}
+
 void apply_overrides(design::Design& d, const RankCliOptions& o) {
     for (const auto& l : o.limits)
         apply_limit(d, l);
     for (const auto& w : o.weights)
         apply_weight(d, w);
+    if (!o.pareto.empty()) apply_pareto(d, o.pareto);
     const auto& l = d.limits;
     if (l.f_sw_max && *l.f_sw_max < l.f_sw_min)
         throw UsageError("conflicting limits: the minimum switching frequency " +
@@ -207,6 +232,7 @@ nlohmann::json to_json(const EffectiveOptions& o) {
     j["top"] = o.top;
     j["sources"] = o.sources;
     j["exhaustive"] = o.exhaustive;
+    j["distinct_inductors"] = o.distinct_inductors;
     j["lock_inductor"] = o.lock_inductor ? nlohmann::json(*o.lock_inductor) : nullptr;
     j["lock_diode"] = o.lock_diode ? nlohmann::json(*o.lock_diode) : nullptr;
     j["band"] = o.band ? nlohmann::json(*o.band) : nullptr;
@@ -222,6 +248,8 @@ EffectiveOptions effective_options_from_json(const nlohmann::json& j) {
         o.sources = j["sources"].get<std::vector<std::string>>();
     if (j.contains("exhaustive") && j["exhaustive"].is_boolean())
         o.exhaustive = j["exhaustive"].get<bool>();
+    if (j.contains("distinct_inductors") && j["distinct_inductors"].is_boolean())
+        o.distinct_inductors = j["distinct_inductors"].get<bool>();
     auto str = [&](const char* k, std::optional<std::string>& out) {
         if (j.contains(k) && j[k].is_string()) out = j[k].get<std::string>();
     };
@@ -243,6 +271,7 @@ EffectiveOptions merge_options(EffectiveOptions base, const RankCliOptions& o,
     }
     if (!o.sources.empty()) base.sources = o.sources;
     if (o.exhaustive) base.exhaustive = true;
+    if (o.distinct_inductors) base.distinct_inductors = true;
     if (!o.lock_inductor.empty()) base.lock_inductor = o.lock_inductor;
     if (!o.lock_diode.empty()) base.lock_diode = o.lock_diode;
     if (!o.band.empty() && !o.frequency.empty())
@@ -347,6 +376,7 @@ RankSession run_ranking(const design::Design& d, const EffectiveOptions& o, unsi
     auto& ro = s.rank_options;
     ro.top = o.top;
     ro.exhaustive = o.exhaustive;
+    ro.distinct_inductors = o.distinct_inductors;
     ro.threads = threads;
     ro.lock_inductor = o.lock_inductor;
     ro.lock_diode = o.lock_diode;
@@ -424,6 +454,8 @@ void add_rank_options(CLI::App* c, RankCliOptions& o, bool with_study) {
     c->add_option("--top", o.top, "how many pairs to list (default 10)");
     c->add_option("--source", o.sources, "use only this catalog source (repeatable)");
     c->add_flag("--exhaustive", o.exhaustive, "tune every pair that passes screening (no bounds)");
+    c->add_flag("--distinct-inductors", o.distinct_inductors,
+                "list each inductor once, with its best diode");
     c->add_option("--threads", o.threads, "worker threads (default: all cores)");
     c->add_flag("--json", o.json, "JSON output");
     c->add_flag("--csv", o.csv, "CSV output, one row per listed pair");
@@ -440,6 +472,9 @@ void add_rank_options(CLI::App* c, RankCliOptions& o, bool with_study) {
                   "load_ripple<=10%, f_sw<=500kHz, efficiency>=90%");
     c->add_option("--weight", o.weights,
                   "objective weight NAME=VALUE (loss, size, ripple, margin, cost)");
+    c->add_option("--pareto", o.pareto,
+                  "objectives of the Pareto set, e.g. loss,size,ripple (default: loss,size, "
+                  "plus cost when weighted); more objectives rank slower");
     if (with_study) {
         c->add_option("--study", o.study, "save the run as this study (default: a generated name)");
         c->add_flag("--no-save", o.no_save, "do not save the run as a study");

@@ -23,6 +23,7 @@ struct RankCliOptions {
     std::optional<int> top; // default 10
     std::vector<std::string> sources;
     bool exhaustive = false;
+    bool distinct_inductors = false;
     unsigned threads = 0;
     bool json = false;
     bool csv = false;
@@ -31,6 +32,7 @@ struct RankCliOptions {
     std::string band, frequency;      // text with units
     std::vector<std::string> limits;  // "height<=3mm", "load_ripple<=10%", ...
     std::vector<std::string> weights; // "size=2"
+    std::string pareto;               // "loss,size,ripple" ("" = the design's)
     std::string study;                // name to save under ("" = generated)
     bool no_save = false;
 };
@@ -40,6 +42,7 @@ struct EffectiveOptions {
     int top = 10;
     std::vector<std::string> sources;
     bool exhaustive = false;
+    bool distinct_inductors = false;
     std::optional<std::string> lock_inductor, lock_diode;
     std::optional<double> band, frequency; // A, Hz
 };
@@ -55,7 +58,9 @@ std::vector<std::string> limit_names();
 void apply_limit(design::Design& d, std::string_view spec);
 // "NAME=VALUE" for loss, size, ripple, margin, cost; throws UsageError.
 void apply_weight(design::Design& d, std::string_view spec);
-// Every --limit and --weight, then a check for conflicting limits. Throws UsageError.
+// "loss,size,ripple": the Pareto set's objectives; throws UsageError naming unknown ones.
+void apply_pareto(design::Design& d, std::string_view list);
+// Every --limit, --weight and --pareto, then a check for conflicting limits. Throws UsageError.
 void apply_overrides(design::Design& d, const RankCliOptions& o);
 
 struct RankSession {

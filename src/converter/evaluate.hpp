@@ -55,4 +55,16 @@ struct PairEvaluation {
 PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
                              const parts::Diode& diode, const Setting& s);
 
+// What evaluate_pair derives from the parts alone, prepared once for many settings of one pair.
+struct PreparedPair {
+    parts::InductorModel inductor;
+    parts::DiodeModel diode;
+    std::vector<Corner> corners;
+};
+PreparedPair prepare_pair(const design::Design& d, const parts::Inductor& l,
+                          const parts::Diode& diode);
+PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
+                             const parts::Diode& diode, const PreparedPair& prepared,
+                             const Setting& s);
+
 } // namespace coilsieve::converter

@@ -71,11 +71,22 @@ std::string name_part(std::string reason, const parts::Inductor& l, const parts:
 
 } // namespace
 
+PreparedPair prepare_pair(const design::Design& d, const parts::Inductor& l,
+                          const parts::Diode& diode) {
+    return {parts::make_model(l), parts::make_model(diode), make_corners(d, l.tolerance)};
+}
+
 PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
                              const parts::Diode& diode, const Setting& s) {
-    const parts::InductorModel lm = parts::make_model(l);
-    const parts::DiodeModel dm = parts::make_model(diode);
-    const std::vector<Corner> corners = make_corners(d, l.tolerance);
+    return evaluate_pair(d, l, diode, prepare_pair(d, l, diode), s);
+}
+
+PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
+                             const parts::Diode& diode, const PreparedPair& prepared,
+                             const Setting& s) {
+    const parts::InductorModel& lm = prepared.inductor;
+    const parts::DiodeModel& dm = prepared.diode;
+    const std::vector<Corner>& corners = prepared.corners;
 
     PairEvaluation e;
     e.corners.reserve(corners.size());

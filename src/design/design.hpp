@@ -6,6 +6,7 @@
 
 #include <optional>
 #include <string>
+#include <string_view>
 #include <vector>
 
 namespace coilsieve::design {
@@ -70,6 +71,12 @@ struct Weights {
     double loss = 1.0, size = 1.0, ripple = 0.5, margin = 0.5, cost = 0.0;
 };
 
+// The objectives a ranking's Pareto set can be taken over.
+enum class Objective { loss, size, ripple, margin, cost };
+// "loss", "size", "ripple", "margin", "cost".
+std::string_view objective_name(Objective o);
+std::optional<Objective> objective_from_name(std::string_view name);
+
 struct Design {
     std::string name;
     Supply supply;
@@ -81,6 +88,9 @@ struct Design {
     Ambient ambient;
     Limits limits;
     Weights weights;
+    // The Pareto set's objectives; empty: loss and size, plus cost when it is weighted. More
+    // objectives make a larger set and a slower ranking (fewer pairs can be shown dominated).
+    std::vector<Objective> pareto;
 };
 
 // Band in amperes for a design's target current.

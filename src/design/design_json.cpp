@@ -256,7 +256,7 @@ public:
         check_object(j, "", "with the design (supply, load, control, ...)");
         check_keys(j, "",
                    {"name", "supply", "load", "switch", "sense_resistor", "output_capacitor",
-                    "control", "ambient", "limits", "weights"});
+                    "control", "ambient", "limits", "weights", "pareto"});
         Design d;
         if (const json* v = find(j, "name")) {
             d.name = text(*v, "name");
@@ -280,6 +280,7 @@ public:
         if (const json* v = find(j, "ambient")) d.ambient = ambient(*v);
         if (const json* v = find(j, "limits")) d.limits = limits(*v);
         if (const json* v = find(j, "weights")) d.weights = weights(*v);
+        if (const json* v = find(j, "pareto")) d.pareto = pareto(*v);
         d.control = control(require(j, "", "control",
                                     "give {\"mode\": \"hysteretic\", \"band\": \"25%\"} or "
                                     "{\"mode\": \"pwm\", \"frequency\": \"250kHz\"}"),
@@ -642,6 +643,26 @@ private:
         return w;
     }
 
+    std::vector<Objective> pareto(const json& v) const {
+        const std::string p = "pareto";
+        const std::string known = "loss, size, ripple, margin, cost";
+        if (!v.is_array())
+            fail(p, "expected a list of objectives such as [\"loss\", \"size\"], got " + quote(v));
+        std::vector<Objective> out;
+        for (std::size_t i = 0; i < v.size(); ++i) {
+            const std::string at = p + "[" + std::to_string(i) + "]";
+            const std::string name = text(v[i], at);
+            const auto o = objective_from_name(name);
+            if (!o) fail(at, "unknown objective \"" + name + "\"; known: " + known);
+            if (std::find(out.begin(), out.end(), *o) != out.end())
+                fail(at, "\"" + name + "\" is listed twice");
+            out.push_back(*o);
+        }
+        if (out.size() < 2)
+            fail(p, "a Pareto set needs at least two objectives (known: " + known + ")");
+        return out;
+    }
+
     static std::string load_noun(const loads::Load& l) {
         if (std::holds_alternative<loads::LedString>(l)) return "the LED string";
         if (std::holds_alternative<loads::Battery>(l)) return "the battery";
@@ -846,6 +867,10 @@ json to_json(const Design& d) {
                     {"ripple", d.weights.ripple},
                     {"margin", d.weights.margin},
                     {"cost", d.weights.cost}};
+    if (!d.pareto.empty()) {
+        j["pareto"] = json::array();
+        for (const auto o : d.pareto) j["pareto"].push_back(std::string(objective_name(o)));
+    }
     return j;
 }
 

@@ -5,8 +5,13 @@
 namespace coilsieve::studies {
 
 PairEvaluatorFn default_evaluator() {
-    return [](const design::Design& d, const parts::Inductor& l, const parts::Diode& diode,
-              const converter::Setting& s) { return converter::evaluate_pair(d, l, diode, s); };
+    return [](const design::Design& d, const parts::Inductor& l, const parts::Diode& diode) {
+        return optimisation::PairEvaluator(
+            [&d, &l, &diode, prepared = converter::prepare_pair(d, l, diode)](
+                const converter::Setting& s) {
+                return converter::evaluate_pair(d, l, diode, prepared, s);
+            });
+    };
 }
 
 } // namespace coilsieve::studies

@@ -37,15 +37,32 @@ std::vector<std::size_t> pareto_front(const std::vector<std::vector<double>>& po
     return front;
 }
 
-std::vector<std::string> pareto_axes(const design::Weights& w) {
-    std::vector<std::string> axes{"loss", "size"};
-    if (w.cost > 0.0) axes.push_back("cost");
+std::vector<design::Objective> pareto_objectives(const design::Design& d) {
+    if (!d.pareto.empty()) return d.pareto;
+    std::vector<design::Objective> axes{design::Objective::loss, design::Objective::size};
+    if (d.weights.cost > 0.0) axes.push_back(design::Objective::cost);
     return axes;
 }
 
-std::vector<double> pareto_vector(const optimisation::Objectives& o, const design::Weights& w) {
-    std::vector<double> v{o.loss, o.size};
-    if (w.cost > 0.0) v.push_back(o.cost ? *o.cost : std::numeric_limits<double>::infinity());
+std::vector<std::string> pareto_axes(const std::vector<design::Objective>& axes) {
+    std::vector<std::string> out;
+    for (const auto a : axes) out.emplace_back(design::objective_name(a));
+    return out;
+}
+
+std::vector<double> pareto_vector(const optimisation::Objectives& o,
+                                  const std::vector<design::Objective>& axes) {
+    std::vector<double> v;
+    v.reserve(axes.size());
+    for (const auto a : axes) switch (a) {
+        case design::Objective::loss: v.push_back(o.loss); break;
+        case design::Objective::size: v.push_back(o.size); break;
+        case design::Objective::ripple: v.push_back(o.ripple); break;
+        case design::Objective::margin: v.push_back(1.0 - o.margin); break;
+        case design::Objective::cost:
+            v.push_back(o.cost ? *o.cost : std::numeric_limits<double>::infinity());
+            break;
+        }
     return v;
 }
 

@@ -19,12 +19,17 @@ bool dominates(std::span<const double> a, std::span<const double> b);
 // candidates sorted by the first objective so most comparisons stop early.
 std::vector<std::size_t> pareto_front(const std::vector<std::vector<double>>& points);
 
-// The Pareto axes: loss and size always, cost when its weight is positive (a pair without a price
-// counts as the most expensive). These are the hardware trade-offs a designer buys. Ripple and
-// saturation margin are left out on purpose: both follow mostly from the tuned band or frequency
-// (a free choice the tuner trades inside the pair's own score) and are guarded by limits
-// (load_ripple, isat_derating); they still count in the weighted score.
-std::vector<std::string> pareto_axes(const design::Weights& w);
-std::vector<double> pareto_vector(const optimisation::Objectives& o, const design::Weights& w);
+// The Pareto set's objectives: the design's own list, or by default loss and size, plus cost when
+// its weight is positive (a pair without a price counts as the most expensive). The default holds
+// the hardware trade-offs a designer buys. Ripple and saturation margin are left out of it because
+// both follow mostly from the tuned band or frequency (a free choice the tuner trades inside the
+// pair's own score) and are guarded by limits; they still count in the weighted score, and a
+// design can add them ("pareto": ["loss", "size", "ripple", "margin"]) at the price of a larger
+// set and a slower ranking.
+std::vector<design::Objective> pareto_objectives(const design::Design& d);
+std::vector<std::string> pareto_axes(const std::vector<design::Objective>& axes);
+// Every entry minimised: margin enters as 1 - margin.
+std::vector<double> pareto_vector(const optimisation::Objectives& o,
+                                  const std::vector<design::Objective>& axes);
 
 } // namespace coilsieve::studies

@@ -152,7 +152,8 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         res.range = optimisation::fixed_range(optimisation::Variable::frequency, *options.frequency);
     }
     res.scales = optimisation::make_scales(d);
-    res.pareto_axes = pareto_axes(d.weights);
+    const auto axes = pareto_objectives(d);
+    res.pareto_axes = pareto_axes(axes);
 
     // Locks.
     auto all_indices = [](std::size_t n) {
@@ -334,17 +335,18 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         std::vector<double> hints;
         if (const auto x = pair_best_setting(ctx, lb, db, scales)) hints.push_back(*x);
         try {
+            const optimisation::PairEvaluator ev = evaluate(d, l, prepared);
             if (job.probe && !hints.empty()) {
                 const double x = hints.front();
                 const auto s = optimisation::make_setting(res.range, base, x);
-                const auto p = scorer(s, evaluate(d, l, prepared, s));
+                const auto p = scorer(s, ev(s));
                 job.probe_evaluations = 1;
                 job.probed = true;
                 if (p.evaluation.feasible && std::isfinite(p.score)) {
                     auto o = job.optimistic;
                     o.loss = std::max(o.loss, pair_loss_within(ctx, lb, db, scales,
                                                                p.score - job.cost_term));
-                    if (dominated_by_front(pareto_vector(o, w))) {
+                    if (dominated_by_front(pareto_vector(o, axes))) {
                         job.skipped = true;
                         return;
                     }
@@ -355,9 +357,6 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
                     }
                 }
             }
-            optimisation::PairEvaluator ev = [&](const converter::Setting& s) {
-                return evaluate(d, l, prepared, s);
-            };
             pr.tune = optimisation::tune(res.range, base, ev, scorer, options.tune, hints);
         } catch (const std::exception& e) {
             pr.tune = optimisation::TuneResult{};
@@ -407,14 +406,24 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
             }
             ++counts.pairs_feasible;
             if (options.keep_all) res.all.push_back(pr);
-            // Top N.
-            if (top.size() < n_top || before(pr, top.back())) {
-                auto pos = std::upper_bound(top.begin(), top.end(), pr, before);
-                top.insert(pos, pr);
+            // Top N. With distinct inductors a pair replaces its inductor's entry only when it is
+            // better, so the N-th score still bounds what can enter.
+            auto same = top.end();
+            if (options.distinct_inductors)
+                same = std::find_if(top.begin(), top.end(), [&](const PairResult& t) {
+                    return t.inductor == pr.inductor;
+                });
+            if (same != top.end()) {
+                if (before(pr, *same)) {
+                    top.erase(same);
+                    top.insert(std::upper_bound(top.begin(), top.end(), pr, before), pr);
+                }
+            } else if (top.size() < n_top || before(pr, top.back())) {
+                top.insert(std::upper_bound(top.begin(), top.end(), pr, before), pr);
                 if (top.size() > n_top) top.pop_back();
             }
             // Pareto front.
-            auto v = pareto_vector(pr.tune.best.objectives, w);
+            auto v = pareto_vector(pr.tune.best.objectives, axes);
             if (!dominated_by_front(v)) {
                 std::erase_if(front, [&](const FrontEntry& f) { return dominates(v, f.v); });
                 front.push_back({std::move(v), pr});
@@ -519,7 +528,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
             const Entry e = queue.top();
             queue.pop();
             if (e.row) {
-                if (dominated_by_front(pareto_vector(row_vector(e.row_index), w))) {
+                if (dominated_by_front(pareto_vector(row_vector(e.row_index), axes))) {
                     const std::size_t n = dcols.size() - e.col;
                     counts.pairs_pruned += n;
                     done += n;
@@ -530,7 +539,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
                 continue;
             }
             Job& job = jobs[e.job];
-            if (dominated_by_front(pareto_vector(job.optimistic, w))) {
+            if (dominated_by_front(pareto_vector(job.optimistic, axes))) {
                 ++counts.pairs_pruned;
                 ++done;
                 continue;

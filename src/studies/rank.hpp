@@ -34,10 +34,12 @@ public:
     using std::invalid_argument::invalid_argument;
 };
 
-using PairEvaluatorFn = std::function<converter::PairEvaluation(
-    const design::Design&, const parts::Inductor&, const parts::Diode&, const converter::Setting&)>;
+// Makes the evaluator of one pair over its settings (what depends on the parts alone is prepared
+// once per pair).
+using PairEvaluatorFn = std::function<optimisation::PairEvaluator(
+    const design::Design&, const parts::Inductor&, const parts::Diode&)>;
 
-// converter::evaluate_pair.
+// converter::evaluate_pair with converter::prepare_pair.
 PairEvaluatorFn default_evaluator();
 
 struct Progress {
@@ -49,6 +51,7 @@ struct Progress {
 struct RankOptions {
     int top = 10;
     bool exhaustive = false;              // tune every pair that passed screening
+    bool distinct_inductors = false;      // the top N holds each inductor once (its best pair)
     unsigned threads = 0;                 // 0: all hardware threads
     std::optional<std::string> lock_inductor; // ID or SOURCE:ID
     std::optional<std::string> lock_diode;

@@ -173,9 +173,9 @@ WhyReport explain_part(const design::Design& d, const std::vector<parts::Inducto
         }
     }
     if (!on_front) {
-        const auto v = pareto_vector(bo, d.weights);
+        const auto v = pareto_vector(bo, pareto_objectives(d));
         for (const auto& p : main.pareto)
-            if (dominates(pareto_vector(p.tune.best.objectives, d.weights), v)) {
+            if (dominates(pareto_vector(p.tune.best.objectives, pareto_objectives(d)), v)) {
                 os << "  Not on the Pareto set: " << pair_key(p, inductors, diodes)
                    << " is at least as good on every axis, with "
                    << advantages(p.tune.best.objectives, bo) << ".\n";

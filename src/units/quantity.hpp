@@ -69,12 +69,12 @@ struct FormatOptions {
 // Non-finite values print "n/a". Lengths print in mm, areas in mm², volumes in mm³, battery
 // capacities in mAh/Ah. With unit = false the number is printed without prefix in unit_symbol(d),
 // so parse(format(x, d, {.unit = false}), d, unit_symbol(d)) recovers x to the digits printed.
-std::string format(double si_value, Dimension d, FormatOptions options = {});
+std::string format(double value, Dimension d, FormatOptions options = {});
 
 // The number alone in a given unit, e.g. for a CSV column headed "L (uH)": format_in(4.7e-6,
 // inductance, "uH") = "4.70"; the inverse of parse(text, d, unit). Throws ParseError for a unit
 // that does not belong to the dimension.
-std::string format_in(double si_value, Dimension d, std::string_view unit, int significant = 3);
+std::string format_in(double value, Dimension d, std::string_view unit, int significant = 3);
 
 // Absolute temperature helpers.
 constexpr double zero_celsius = 273.15;

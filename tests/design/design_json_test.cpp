@@ -103,6 +103,7 @@ void expect_same(const Design& a, const Design& b) {
     EXPECT_EQ(a.sw.output_capacitance, b.sw.output_capacitance);
     EXPECT_EQ(a.sw.defaulted, b.sw.defaulted);
     EXPECT_EQ(a.sense_resistor, b.sense_resistor);
+    EXPECT_EQ(a.pareto, b.pareto);
     ASSERT_EQ(a.output_capacitor.has_value(), b.output_capacitor.has_value());
     if (a.output_capacitor) {
         EXPECT_EQ(a.output_capacitor->capacitance, b.output_capacitor->capacitance);
@@ -215,6 +216,9 @@ TEST(DesignFile, RoundTripIsExact) {
     amps["output_capacitor"] = {{"capacitance", "4.7uF"}, {"esr", "15mohm"}};
     amps["limits"]["footprint_max"] = "60mm2";
     amps["limits"]["efficiency_min"] = "87.5%";
+    amps["pareto"] = {"loss", "ripple", "margin"};
+    EXPECT_EQ(read_design(amps, "rt.json").pareto,
+              (std::vector<Objective>{Objective::loss, Objective::ripple, Objective::margin}));
     for (const json& j : {lamp_json(), charger_json(), amps}) {
         const Design d = read_design(j, "rt.json");
         const Design again = read_design(to_json(d), "rt.json");
@@ -238,6 +242,10 @@ TEST(DesignFile, MalformedFieldsAreNamed) {
     const std::vector<Case> cases{
         {[](json& j) { j["supply"].erase("min"); }, "supply.min", "missing"},
         {[](json& j) { j["supply"]["min"] = "20A"; }, "supply.min", "is a current"},
+        {[](json& j) { j["pareto"] = {"loss", "colour"}; }, "pareto[1]", "known: loss, size"},
+        {[](json& j) { j["pareto"] = {"loss", "loss"}; }, "pareto[1]", "listed twice"},
+        {[](json& j) { j["pareto"] = {"loss"}; }, "pareto", "at least two"},
+        {[](json& j) { j["pareto"] = "loss"; }, "pareto", "list of objectives"},
         {[](json& j) { j["supply"]["min"] = "20A"; }, "supply.min", "expected a voltage"},
         {[](json& j) { j["supply"]["min"] = "twenty"; }, "supply.min", ""},
         {[](json& j) { j["supply"]["min"] = true; }, "supply.min", "expected a voltage"},

@@ -61,10 +61,26 @@ TEST(Pareto, MatchesBruteForceOnRandomSets) {
 }
 
 TEST(Pareto, CostAxisOnlyWhenWeighted) {
-    coilsieve::design::Weights w;
-    EXPECT_EQ(pareto_axes(w).size(), 2u);
-    w.cost = 1.0;
-    EXPECT_EQ(pareto_axes(w).size(), 3u);
+    coilsieve::design::Design d;
+    EXPECT_EQ(pareto_axes(pareto_objectives(d)), (std::vector<std::string>{"loss", "size"}));
+    d.weights.cost = 1.0;
+    const auto axes = pareto_objectives(d);
+    EXPECT_EQ(pareto_axes(axes), (std::vector<std::string>{"loss", "size", "cost"}));
     coilsieve::optimisation::Objectives o;
-    EXPECT_TRUE(std::isinf(pareto_vector(o, w)[2])); // unpriced counts as most expensive
+    EXPECT_TRUE(std::isinf(pareto_vector(o, axes)[2])); // unpriced counts as most expensive
+}
+
+TEST(Pareto, DesignListIsUsedAndMarginIsMinimisedAsItsComplement) {
+    using coilsieve::design::Objective;
+    coilsieve::design::Design d;
+    d.pareto = {Objective::ripple, Objective::margin};
+    const auto axes = pareto_objectives(d);
+    EXPECT_EQ(pareto_axes(axes), (std::vector<std::string>{"ripple", "margin"}));
+    coilsieve::optimisation::Objectives a, b;
+    a.ripple = 0.1;
+    a.margin = 0.6; // more margin is better
+    b.ripple = 0.1;
+    b.margin = 0.4;
+    EXPECT_TRUE(dominates(pareto_vector(a, axes), pareto_vector(b, axes)));
+    EXPECT_FALSE(dominates(pareto_vector(b, axes), pareto_vector(a, axes)));
 }

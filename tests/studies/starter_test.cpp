@@ -5,12 +5,16 @@
 // third inductor and diode, about 80,000 pairs before screening) to keep CI within its budget.
 #include "catalog/store.hpp"
 #include "design/design_json.hpp"
+#include "studies/pareto.hpp"
 #include "studies/rank.hpp"
 #include "studies/result_json.hpp"
 
 #include <gtest/gtest.h>
 
+#include <algorithm>
 #include <fstream>
+#include <map>
+#include <set>
 #include <sstream>
 
 using namespace coilsieve;
@@ -64,6 +68,28 @@ TEST_P(StarterCatalog, PrunedEqualsExhaustiveAndBoundsHold) {
     }
     // How many pairs pruning saves is a speed matter, reported by tests/bench/bench_rank.cpp.
     EXPECT_LE(rp.counts.pairs_tuned, rf.counts.pairs_tuned);
+
+    // One row per inductor: the best pair of each inductor from the exhaustive run, by score.
+    studies::RankOptions distinct;
+    distinct.distinct_inductors = true;
+    const auto rd =
+        studies::rank_pairs(d, s.inductors, s.diodes, distinct, studies::default_evaluator());
+    auto before = [&](const studies::PairResult& a, const studies::PairResult& b) {
+        if (a.tune.best.score != b.tune.best.score) return a.tune.best.score < b.tune.best.score;
+        return studies::pair_before(a, b, s.inductors, s.diodes);
+    };
+    std::map<std::size_t, studies::PairResult> best;
+    for (const auto& p : rf.all) {
+        if (!p.tune.feasible) continue;
+        auto it = best.find(p.inductor);
+        if (it == best.end() || before(p, it->second)) best[p.inductor] = p;
+    }
+    std::vector<studies::PairResult> expected;
+    for (const auto& [i, p] : best) expected.push_back(p);
+    std::sort(expected.begin(), expected.end(), before);
+    if (expected.size() > rd.top.size()) expected.resize(rd.top.size());
+    EXPECT_EQ(rd.top.size(), std::min<std::size_t>(10, best.size()));
+    EXPECT_EQ(listed(rd.top), listed(expected));
 }
 
 TEST_P(StarterCatalog, OneAndTwoThreadsAgree) {
@@ -78,6 +104,36 @@ TEST_P(StarterCatalog, OneAndTwoThreadsAgree) {
     EXPECT_EQ(listed(r1.top), listed(r2.top));
     EXPECT_EQ(listed(r1.pareto), listed(r2.pareto));
     EXPECT_EQ(r1.counts.pairs_tuned, r2.counts.pairs_tuned); // fixed batches: same pairs tuned
+}
+
+// More Pareto objectives weaken the pruning (ripple and margin bounds are per inductor) but must not
+// change the answer: the pruned set equals the non-dominated set of every pair tuned exhaustively.
+TEST(StarterCatalogPareto, FourObjectiveSetEqualsBruteForce) {
+    auto d = design::load_design_file(std::string(COILSIEVE_SOURCE_DIR) +
+                                      "/data/examples/reading-lamp.json");
+    d.pareto = {design::Objective::loss, design::Objective::size, design::Objective::ripple,
+                design::Objective::margin};
+    const auto& s = starter();
+    studies::RankOptions pruned, full;
+    full.exhaustive = true;
+    full.keep_all = true;
+    const auto rp = studies::rank_pairs(d, s.inductors, s.diodes, pruned, studies::default_evaluator());
+    const auto rf = studies::rank_pairs(d, s.inductors, s.diodes, full, studies::default_evaluator());
+    EXPECT_EQ(rp.pareto_axes, (std::vector<std::string>{"loss", "size", "ripple", "margin"}));
+    std::vector<studies::PairResult> feasible;
+    std::vector<std::vector<double>> points;
+    const auto axes = studies::pareto_objectives(d);
+    for (const auto& p : rf.all)
+        if (p.tune.feasible) {
+            feasible.push_back(p);
+            points.push_back(studies::pareto_vector(p.tune.best.objectives, axes));
+        }
+    std::set<std::string> brute, got;
+    for (const std::size_t i : studies::pareto_front(points))
+        brute.insert(studies::pair_key(feasible[i], s.inductors, s.diodes));
+    for (const auto& p : rp.pareto) got.insert(studies::pair_key(p, s.inductors, s.diodes));
+    EXPECT_EQ(got, brute);
+    EXPECT_GT(brute.size(), 8u); // more objectives, a larger set than loss and size alone
 }
 
 INSTANTIATE_TEST_SUITE_P(Examples, StarterCatalog,

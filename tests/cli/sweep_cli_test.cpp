@@ -1,0 +1,103 @@
+// `coilsieve sweep` end to end on a small imported catalog: the steps, the best pair at each step
+// (the same as a `rank` of a design file holding that value), the "changed" mark, the ratings the
+// winner must meet at each load current, and bad --vary input.
+#include "cli_run.hpp"
+
+#include <cmath>
+#include <nlohmann/json.hpp>
+#include <set>
+
+using coilsieve::testing_support::CliTest;
+using coilsieve::testing_support::Outcome;
+using json = nlohmann::json;
+
+namespace {
+
+// The header and the rows with these ids from a starter-catalog CSV.
+std::string rows_of(const std::string& file, const std::set<std::string>& ids) {
+    std::ifstream in(std::string(COILSIEVE_SOURCE_DIR) + "/data/starter/" + file);
+    std::string line, out;
+    std::getline(in, line);
+    out = line + "\n";
+    while (std::getline(in, line))
+        if (ids.count(line.substr(0, line.find(','))) != 0) out += line + "\n";
+    return out;
+}
+
+class SweepCli : public CliTest {
+protected:
+    void SetUp() override {
+        CliTest::SetUp();
+        // Three inductors of different Isat and RMS ratings, three diodes.
+        const auto l =
+            file("l.csv", rows_of("inductors.csv", {"GEN-L-MCP-6.6x6.4x3-100u",
+                                                    "GEN-L-SDF-8x8x4-47u", "GEN-L-MCP-4x4x2-10u"}));
+        const auto d = file("d.csv", rows_of("diodes.csv", {"GEN-D-SCH-60V-2A-SOD-123F",
+                                                            "GEN-D-SCH-40V-1A-SOD-123F",
+                                                            "GEN-D-SCH-100V-2A-SOD-123F"}));
+        ASSERT_EQ(run("parts import '" + l.string() + "' --kind inductor --source hand").code, 0);
+        ASSERT_EQ(run("parts import '" + d.string() + "' --kind diode --source hand").code, 0);
+        design_ = std::string(COILSIEVE_SOURCE_DIR) + "/data/examples/reading-lamp.json";
+    }
+    std::string design_;
+};
+
+} // namespace
+
+TEST_F(SweepCli, EachStepIsTheRankingOfThatDesign) {
+    const Outcome r =
+        run("sweep '" + design_ + "' --source hand --vary load.current=0.35A..1.05A:3 --json");
+    ASSERT_EQ(r.code, 0) << r.err;
+    const json j = json::parse(r.out);
+    EXPECT_EQ(j["field"], "load.current");
+    ASSERT_EQ(j["steps"].size(), 3u);
+    const double expected[] = {0.35, 0.70, 1.05}; // evenly spaced, ends included
+    std::string previous;
+    std::ifstream in(design_);
+    const json base = json::parse(in);
+    for (std::size_t i = 0; i < 3; ++i) {
+        const json& st = j["steps"][i];
+        EXPECT_NEAR(st["value"].get<double>(), expected[i], 1e-12);
+        ASSERT_FALSE(st["best"].is_null()) << "step " << i;
+        const std::string key = st["best"]["inductor"]["id"].get<std::string>() + "+" +
+                                st["best"]["diode"]["id"].get<std::string>();
+        EXPECT_EQ(st["changed"].get<bool>(), i > 0 && key != previous) << "step " << i;
+        previous = key;
+
+        // The same design as a file, ranked on its own.
+        json d = base;
+        d["load"]["current"] = std::to_string(expected[i]) + "A";
+        const auto f = file("step" + std::to_string(i) + ".json", d.dump());
+        const Outcome rk = run("rank '" + f.string() + "' --source hand --no-save --json");
+        ASSERT_EQ(rk.code, 0) << rk.err;
+        const json rj = json::parse(rk.out);
+        ASSERT_FALSE(rj["results"].empty());
+        EXPECT_EQ(rj["results"][0]["inductor"]["id"], st["best"]["inductor"]["id"]) << "step " << i;
+        EXPECT_EQ(rj["results"][0]["diode"]["id"], st["best"]["diode"]["id"]) << "step " << i;
+        EXPECT_DOUBLE_EQ(rj["results"][0]["score"].get<double>(),
+                         st["best"]["score"].get<double>());
+
+        // The comparator switches off at I + b/2 with b >= 5 % of I (the design's band range), so
+        // every corner's peak is at least 1.025·I, and the mean holds I (hysteretic control).
+        const auto& corners = rj["results"][0]["corners"];
+        ASSERT_FALSE(corners.empty());
+        for (const auto& c : corners) {
+            EXPECT_GE(c["il_peak"].get<double>(), 1.025 * expected[i]) << c["name"];
+            EXPECT_NEAR(c["il_avg"].get<double>(), expected[i], 0.03 * expected[i]) << c["name"];
+        }
+    }
+    // At 1.05 A the 100 µH part is out: its RMS rating is 0.73 A (its catalog row).
+    EXPECT_NE(j["steps"][2]["best"]["inductor"]["id"], "GEN-L-MCP-6.6x6.4x3-100u");
+}
+
+TEST_F(SweepCli, BadVaryIsAUsageErrorNamingTheField) {
+    Outcome r = run("sweep '" + design_ + "' --source hand --vary load.colour=1..2:3");
+    EXPECT_EQ(r.code, 2);
+    EXPECT_NE(r.err.find("load.colour"), std::string::npos) << r.err;
+    r = run("sweep '" + design_ + "' --source hand --vary load.current=3V..5V:3");
+    EXPECT_EQ(r.code, 2);
+    EXPECT_NE(r.err.find("current"), std::string::npos) << r.err;
+    r = run("sweep '" + design_ + "' --source hand --vary load.current=0.3A..0.5A:1");
+    EXPECT_EQ(r.code, 2);
+    EXPECT_NE(r.err.find("STEPS"), std::string::npos) << r.err;
+}
