@@ -9,19 +9,15 @@ std::string where(std::string_view file, int line) {
     return std::string(file) + ":" + std::to_string(line) + ": ";
 }
 
-bool blank(const CsvRecord& r) {
-    return r.fields.size() == 1 && r.fields[0].empty();
-}
+bool blank(const CsvRecord& r) { return r.fields.size() == 1 && r.fields[0].empty(); }
 
 // Count a delimiter outside quotes on the first line, to explain a single-column header.
 std::size_t count_unquoted(std::string_view line, char delim) {
     std::size_t n = 0;
     bool quoted = false;
     for (char c : line) {
-        if (c == '"')
-            quoted = !quoted;
-        else if (c == delim && !quoted)
-            ++n;
+        if (c == '"') quoted = !quoted;
+        else if (c == delim && !quoted) ++n;
     }
     return n;
 }
@@ -150,10 +146,8 @@ std::string csv_escape(std::string_view field) {
     if (!needs) return std::string(field);
     std::string out = "\"";
     for (char c : field) {
-        if (c == '"')
-            out += "\"\"";
-        else
-            out.push_back(c);
+        if (c == '"') out += "\"\"";
+        else out.push_back(c);
     }
     out.push_back('"');
     return out;

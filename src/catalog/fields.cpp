@@ -222,12 +222,8 @@ constexpr std::size_t id = fi(diode_table, "id"), technology = fi(diode_table, "
 }
 constexpr std::size_t forward_points = 3; // vfK/ifK/tK triples follow vf1 in the table
 
-bool has(const Record& r, std::size_t i) {
-    return !std::holds_alternative<std::monostate>(r[i]);
-}
-double number(const Record& r, std::size_t i) {
-    return std::get<double>(r[i]);
-}
+bool has(const Record& r, std::size_t i) { return !std::holds_alternative<std::monostate>(r[i]); }
+double number(const Record& r, std::size_t i) { return std::get<double>(r[i]); }
 std::optional<double> opt(const Record& r, std::size_t i) {
     if (auto p = std::get_if<double>(&r[i])) return *p;
     return std::nullopt;
@@ -236,25 +232,18 @@ std::string text(const Record& r, std::size_t i) {
     if (auto p = std::get_if<std::string>(&r[i])) return *p;
     return {};
 }
-Value val(const std::optional<double>& v) {
-    return v ? Value{*v} : Value{};
-}
-Value str(const std::string& s) {
-    return s.empty() ? Value{} : Value{s};
-}
+Value val(const std::optional<double>& v) { return v ? Value{*v} : Value{}; }
+Value str(const std::string& s) { return s.empty() ? Value{} : Value{s}; }
 
 std::string trim(std::string_view s) {
-    while (!s.empty() && std::isspace(static_cast<unsigned char>(s.front())))
-        s.remove_prefix(1);
-    while (!s.empty() && std::isspace(static_cast<unsigned char>(s.back())))
-        s.remove_suffix(1);
+    while (!s.empty() && std::isspace(static_cast<unsigned char>(s.front()))) s.remove_prefix(1);
+    while (!s.empty() && std::isspace(static_cast<unsigned char>(s.back()))) s.remove_suffix(1);
     return std::string(s);
 }
 
 std::string lower(std::string_view s) {
     std::string out(s);
-    for (char& c : out)
-        c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+    for (char& c : out) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
     return out;
 }
 
@@ -297,19 +286,15 @@ constexpr std::array<std::string_view, 30> package_candidates{
 std::string choice_key(std::string_view s) {
     std::string out;
     for (char c : trim(s)) {
-        if (c == ' ' || c == '_')
-            out.push_back('-');
-        else
-            out.push_back(static_cast<char>(std::tolower(static_cast<unsigned char>(c))));
+        if (c == ' ' || c == '_') out.push_back('-');
+        else out.push_back(static_cast<char>(std::tolower(static_cast<unsigned char>(c))));
     }
     return out;
 }
 
 } // namespace
 
-std::string_view to_string(PartKind k) {
-    return k == PartKind::inductor ? "inductor" : "diode";
-}
+std::string_view to_string(PartKind k) { return k == PartKind::inductor ? "inductor" : "diode"; }
 
 std::optional<PartKind> part_kind_from_string(std::string_view s) {
     const std::string l = lower(s);
@@ -480,11 +465,9 @@ std::optional<std::string> check_range(const Field& field, double v) {
 std::vector<std::string> choice_names(std::string_view field) {
     std::vector<std::string> out;
     if (field == "family") {
-        for (auto n : parts::family_names())
-            out.emplace_back(n);
+        for (auto n : parts::family_names()) out.emplace_back(n);
     } else if (field == "technology") {
-        for (auto n : parts::technology_names())
-            out.emplace_back(n);
+        for (auto n : parts::technology_names()) out.emplace_back(n);
     } else if (field == "shape") {
         out = {"hard", "soft"};
     } else if (field == "mounting") {
@@ -654,8 +637,7 @@ std::vector<RecordProblem> apply_defaults(PartKind kind, Record& r,
         if (has(r, package)) outline = parts::package_outline(text(r, package));
         if (!outline) {
             std::string names;
-            for (const auto& n : choice_names("package"))
-                names += (names.empty() ? "" : ", ") + n;
+            for (const auto& n : choice_names("package")) names += (names.empty() ? "" : ", ") + n;
             std::string missing;
             for (std::size_t f : {rth_ja, length, width, height}) {
                 if (!has(r, f))
@@ -852,11 +834,9 @@ std::string fields_help(PartKind kind) {
             unit.append("[").append(f.display_unit).append("]");
         }
         os << "  " << name;
-        for (std::size_t pad = name.size(); pad < 17; ++pad)
-            os << ' ';
+        for (std::size_t pad = name.size(); pad < 17; ++pad) os << ' ';
         os << unit;
-        for (std::size_t pad = unit.size(); pad < 7; ++pad)
-            os << ' ';
+        for (std::size_t pad = unit.size(); pad < 7; ++pad) os << ' ';
         os << f.description;
         if (!f.default_rule.empty()) os << " (default: " << f.default_rule << ")";
         os << '\n';

@@ -15,9 +15,7 @@ constexpr std::array<std::uint32_t, 64> k_round = {
     0x748f82ee, 0x78a5636f, 0x84c87814, 0x8cc70208, 0x90befffa, 0xa4506ceb, 0xbef9a3f7, 0xc67178f2,
 };
 
-constexpr std::uint32_t rotr(std::uint32_t x, int n) {
-    return (x >> n) | (x << (32 - n));
-}
+constexpr std::uint32_t rotr(std::uint32_t x, int n) { return (x >> n) | (x << (32 - n)); }
 
 } // namespace
 
@@ -80,15 +78,12 @@ std::array<std::uint8_t, 32> Sha256::digest() {
     // Padding (FIPS 180-4 5.1.1): a one bit, zeros, then the 64-bit message length.
     buffer_[buffered_++] = 0x80;
     if (buffered_ > 56) {
-        while (buffered_ < 64)
-            buffer_[buffered_++] = 0;
+        while (buffered_ < 64) buffer_[buffered_++] = 0;
         block(buffer_.data());
         buffered_ = 0;
     }
-    while (buffered_ < 56)
-        buffer_[buffered_++] = 0;
-    for (int i = 7; i >= 0; --i)
-        buffer_[buffered_++] = static_cast<std::uint8_t>(bits >> (8 * i));
+    while (buffered_ < 56) buffer_[buffered_++] = 0;
+    for (int i = 7; i >= 0; --i) buffer_[buffered_++] = static_cast<std::uint8_t>(bits >> (8 * i));
     block(buffer_.data());
     buffered_ = 0;
     std::array<std::uint8_t, 32> out{};

@@ -1,7 +1,7 @@
-#include <chrono>
-#include <ctime>
 #include "catalog/sqlite.hpp"
 
+#include <chrono>
+#include <ctime>
 #include <sqlite3.h>
 #include <utility>
 
@@ -21,9 +21,7 @@ bool SqliteError::busy() const {
     return primary == SQLITE_BUSY || primary == SQLITE_LOCKED;
 }
 
-bool SqliteError::constraint() const {
-    return (code_ & 0xff) == SQLITE_CONSTRAINT;
-}
+bool SqliteError::constraint() const { return (code_ & 0xff) == SQLITE_CONSTRAINT; }
 
 Database::Database(const std::filesystem::path& path) : path_(path) {
     const int rc =
@@ -66,24 +64,16 @@ void Database::exec(std::string_view sql) {
     }
 }
 
-Statement Database::prepare(std::string_view sql) {
-    return Statement(*this, sql);
-}
+Statement Database::prepare(std::string_view sql) { return Statement(*this, sql); }
 
 std::int64_t Database::scalar_int(std::string_view sql) {
     Statement st(*this, sql);
     return st.step() ? st.column_int(0) : 0;
 }
 
-std::int64_t Database::last_insert_rowid() const {
-    return sqlite3_last_insert_rowid(db_);
-}
-int Database::changes() const {
-    return sqlite3_changes(db_);
-}
-bool Database::in_transaction() const {
-    return sqlite3_get_autocommit(db_) == 0;
-}
+std::int64_t Database::last_insert_rowid() const { return sqlite3_last_insert_rowid(db_); }
+int Database::changes() const { return sqlite3_changes(db_); }
+bool Database::in_transaction() const { return sqlite3_get_autocommit(db_) == 0; }
 
 Statement::Statement(Database& db, std::string_view sql) : db_(db.handle()) {
     const int rc =
@@ -161,24 +151,16 @@ void Statement::reset() {
     sqlite3_clear_bindings(stmt_);
 }
 
-int Statement::column_count() const {
-    return sqlite3_column_count(stmt_);
-}
+int Statement::column_count() const { return sqlite3_column_count(stmt_); }
 
 std::string Statement::column_name(int col) const {
     const char* n = sqlite3_column_name(stmt_, col);
     return n ? n : "";
 }
 
-bool Statement::is_null(int col) const {
-    return sqlite3_column_type(stmt_, col) == SQLITE_NULL;
-}
-double Statement::column_double(int col) const {
-    return sqlite3_column_double(stmt_, col);
-}
-std::int64_t Statement::column_int(int col) const {
-    return sqlite3_column_int64(stmt_, col);
-}
+bool Statement::is_null(int col) const { return sqlite3_column_type(stmt_, col) == SQLITE_NULL; }
+double Statement::column_double(int col) const { return sqlite3_column_double(stmt_, col); }
+std::int64_t Statement::column_int(int col) const { return sqlite3_column_int64(stmt_, col); }
 
 std::string Statement::column_text(int col) const {
     const auto* p = sqlite3_column_text(stmt_, col);

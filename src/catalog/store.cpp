@@ -17,9 +17,7 @@
 
 namespace coilsieve::catalog {
 
-int latest_schema_version() {
-    return static_cast<int>(schema::migrations.size());
-}
+int latest_schema_version() { return static_cast<int>(schema::migrations.size()); }
 
 std::string_view migration_sql(int version) {
     if (version < 1 || version > latest_schema_version()) {
@@ -32,9 +30,7 @@ namespace {
 
 using sqlite::Statement;
 
-std::string_view table_name(PartKind k) {
-    return k == PartKind::inductor ? "inductor" : "diode";
-}
+std::string_view table_name(PartKind k) { return k == PartKind::inductor ? "inductor" : "diode"; }
 
 std::string quoted_columns(PartKind kind, std::string_view prefix) {
     std::string out;
@@ -48,8 +44,7 @@ std::string quoted_columns(PartKind kind, std::string_view prefix) {
 std::string insert_sql(PartKind kind) {
     std::string sql = "INSERT INTO " + std::string(table_name(kind)) + " (source_id, assumed, " +
                       quoted_columns(kind, "") + ") VALUES (?, ?";
-    for (std::size_t i = 0; i < fields(kind).size(); ++i)
-        sql += ", ?";
+    for (std::size_t i = 0; i < fields(kind).size(); ++i) sql += ", ?";
     return sql + ")";
 }
 
@@ -62,12 +57,9 @@ std::string select_sql(PartKind kind) {
 void bind_record(Statement& st, int first, const Record& r) {
     for (std::size_t i = 0; i < r.size(); ++i) {
         const int idx = first + static_cast<int>(i);
-        if (auto d = std::get_if<double>(&r[i]))
-            st.bind(idx, *d);
-        else if (auto s = std::get_if<std::string>(&r[i]))
-            st.bind(idx, *s);
-        else
-            st.bind_null(idx);
+        if (auto d = std::get_if<double>(&r[i])) st.bind(idx, *d);
+        else if (auto s = std::get_if<std::string>(&r[i])) st.bind(idx, *s);
+        else st.bind_null(idx);
     }
 }
 
@@ -77,16 +69,13 @@ Record read_record(const Statement& st, PartKind kind, int first) {
     for (std::size_t i = 0; i < table.size(); ++i) {
         const int col = first + static_cast<int>(i);
         if (st.is_null(col)) continue;
-        if (table[i].type == FieldType::text)
-            r[i] = st.column_text(col);
-        else
-            r[i] = st.column_double(col);
+        if (table[i].type == FieldType::text) r[i] = st.column_text(col);
+        else r[i] = st.column_double(col);
     }
     return r;
 }
 
-template <class Part>
-Part part_from_row(const Statement& st, PartKind kind) {
+template <class Part> Part part_from_row(const Statement& st, PartKind kind) {
     Record r = read_record(st, kind, 2);
     if constexpr (std::is_same_v<Part, parts::Inductor>) {
         return inductor_from_record(r, st.column_text(0), split_names(st.column_text(1)));
@@ -104,8 +93,7 @@ bool same_value(const Value& a, const Value& b) {
     return a == b;
 }
 
-template <class Part>
-bool same_part(const Part& a, const Part& b) {
+template <class Part> bool same_part(const Part& a, const Part& b) {
     if (a.assumed != b.assumed) return false;
     const Record ra = to_record(a), rb = to_record(b);
     for (std::size_t i = 0; i < ra.size(); ++i) {
@@ -144,14 +132,11 @@ std::vector<Part> run_select(sqlite::Database& db, PartKind kind, const std::str
     Statement st(db, select_sql(kind) + where + tail);
     for (std::size_t i = 0; i < params.size(); ++i) {
         const int idx = static_cast<int>(i) + 1;
-        if (auto d = std::get_if<double>(&params[i]))
-            st.bind(idx, *d);
-        else if (auto s = std::get_if<std::string>(&params[i]))
-            st.bind(idx, *s);
+        if (auto d = std::get_if<double>(&params[i])) st.bind(idx, *d);
+        else if (auto s = std::get_if<std::string>(&params[i])) st.bind(idx, *s);
     }
     std::vector<Part> out;
-    while (st.step())
-        out.push_back(part_from_row<Part>(st, kind));
+    while (st.step()) out.push_back(part_from_row<Part>(st, kind));
     return out;
 }
 
@@ -293,8 +278,7 @@ ImportSummary do_import(sqlite::Database& db, const ImportRequest& req, ImportRe
     return sum;
 }
 
-template <class Part>
-std::string export_csv_impl(const std::vector<Part>& ps, PartKind kind) {
+template <class Part> std::string export_csv_impl(const std::vector<Part>& ps, PartKind kind) {
     const auto table = fields(kind);
     std::vector<std::string> header;
     std::vector<double> scale(table.size(), 1.0);
@@ -332,8 +316,7 @@ std::string export_csv_impl(const std::vector<Part>& ps, PartKind kind) {
     return out;
 }
 
-template <class Part>
-std::string export_json_impl(const std::vector<Part>& ps, PartKind kind) {
+template <class Part> std::string export_json_impl(const std::vector<Part>& ps, PartKind kind) {
     const auto table = fields(kind);
     nlohmann::ordered_json arr = nlohmann::ordered_json::array();
     for (const Part& p : ps) {
@@ -509,8 +492,7 @@ int Store::delete_source(std::string_view name, std::optional<PartKind> kind) {
     }
     if (sources_removed == 0) {
         std::string names;
-        for (const auto& s : sources())
-            names += (names.empty() ? "" : ", ") + s.name;
+        for (const auto& s : sources()) names += (names.empty() ? "" : ", ") + s.name;
         throw CatalogError("no source \"" + std::string(name) + "\" in the catalog" +
                            (names.empty() ? std::string{} : "; sources: " + names));
     }
@@ -646,12 +628,9 @@ std::string Store::fingerprint(const std::vector<std::string>& sources) {
         line += "\x1f" + source + "\x1f" + join_names(assumed);
         for (const Value& v : r) {
             line += "\x1f";
-            if (auto d = std::get_if<double>(&v))
-                line += number_text(*d);
-            else if (auto s = std::get_if<std::string>(&v))
-                line += "s" + *s;
-            else
-                line += "-";
+            if (auto d = std::get_if<double>(&v)) line += number_text(*d);
+            else if (auto s = std::get_if<std::string>(&v)) line += "s" + *s;
+            else line += "-";
         }
         line += "\x1e";
         h.update(line);
@@ -659,10 +638,8 @@ std::string Store::fingerprint(const std::vector<std::string>& sources) {
     // One read transaction gives one consistent snapshot (unless the caller already holds one).
     std::optional<sqlite::Transaction> tx;
     if (!db_.in_transaction()) tx.emplace(db_, sqlite::Transaction::Mode::deferred);
-    for (const auto& p : all_inductors(sources))
-        add_record('L', p.source, p.assumed, to_record(p));
-    for (const auto& p : all_diodes(sources))
-        add_record('D', p.source, p.assumed, to_record(p));
+    for (const auto& p : all_inductors(sources)) add_record('L', p.source, p.assumed, to_record(p));
+    for (const auto& p : all_diodes(sources)) add_record('D', p.source, p.assumed, to_record(p));
     if (tx) tx->commit();
     return h.hex();
 }
@@ -683,7 +660,8 @@ std::string export_json(const std::vector<parts::Diode>& ps) {
 PartLists starter_parts() {
     PartLists out;
     out.inductors =
-        read_parts(starter_inductors_csv(), "inductors.csv", PartKind::inductor, "starter").inductors;
+        read_parts(starter_inductors_csv(), "inductors.csv", PartKind::inductor, "starter")
+            .inductors;
     out.diodes = read_parts(starter_diodes_csv(), "diodes.csv", PartKind::diode, "starter").diodes;
     return out;
 }

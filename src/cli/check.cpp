@@ -143,10 +143,8 @@ int run_check(const CheckOptions& o, Context& ctx) {
         }
     }
 
-    if (o.json)
-        ctx.out() << report::check_json(in).dump(2) << "\n";
-    else
-        ctx.out() << report::check_text(in);
+    if (o.json) ctx.out() << report::check_json(in).dump(2) << "\n";
+    else ctx.out() << report::check_text(in);
     return e.feasible ? exit_ok : exit_error;
 }
 

@@ -39,8 +39,7 @@ int main(int argc, char** argv) {
 
     std::vector<Command> commands;
     auto add = [&](std::vector<Command> more) {
-        for (auto& c : more)
-            commands.push_back(std::move(c));
+        for (auto& c : more) commands.push_back(std::move(c));
     };
     // ---- register subcommands here, one line each ----
     add(setup_parts(app));

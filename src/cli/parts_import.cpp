@@ -75,19 +75,16 @@ int run_parts_import(const PartsImportOptions& o, Context& ctx) {
     try {
         s = ctx.store().import(req);
     } catch (const catalog::ImportFailed& e) {
-        for (const auto& p : e.problems())
-            ctx.err() << p.to_string() << "\n";
+        for (const auto& p : e.problems()) ctx.err() << p.to_string() << "\n";
         ctx.err() << "error: " << e.what() << "\n";
         return exit_error;
     }
     if (!s.ignored_columns.empty()) {
         ctx.err() << o.file << ": note: ignored columns:";
-        for (const auto& c : s.ignored_columns)
-            ctx.err() << " \"" << c << "\"";
+        for (const auto& c : s.ignored_columns) ctx.err() << " \"" << c << "\"";
         ctx.err() << " (not catalog fields; map them with --mapping if they are)\n";
     }
-    for (const auto& p : s.problems)
-        ctx.err() << p.to_string() << "\n";
+    for (const auto& p : s.problems) ctx.err() << p.to_string() << "\n";
     if (!o.skip_bad.empty() && !s.problems.empty() && !o.dry_run) {
         write_rejects(o.skip_bad, s.problems);
         ctx.err() << s.rejected << " rows rejected; reasons written to " << o.skip_bad << "\n";

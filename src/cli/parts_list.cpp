@@ -163,8 +163,7 @@ int print_parts(const std::vector<Part>& ps, PartKind kind, const PartsListOptio
         return exit_ok;
     }
     std::vector<report::Column> columns;
-    for (const auto& c : cols)
-        columns.push_back({c.header, c.align});
+    for (const auto& c : cols) columns.push_back({c.header, c.align});
     report::Table table(std::move(columns));
     for (const Part& p : ps) {
         const catalog::Record r = catalog::to_record(p);
@@ -188,8 +187,7 @@ int print_parts(const std::vector<Part>& ps, PartKind kind, const PartsListOptio
     return exit_ok;
 }
 
-template <class Part>
-void show_part(const Part& p, PartKind kind, Context& ctx) {
+template <class Part> void show_part(const Part& p, PartKind kind, Context& ctx) {
     const auto table_fields = catalog::fields(kind);
     const catalog::Record r = catalog::to_record(p);
     ctx.out() << catalog::to_string(kind) << " " << p.source << ":" << p.id << "\n";

@@ -52,16 +52,13 @@ std::string trim(std::string_view s) {
     return std::string(s.substr(b, e - b + 1));
 }
 
-std::string fmt(double v, u::Dimension d) {
-    return u::format(v, d);
-}
+std::string fmt(double v, u::Dimension d) { return u::format(v, d); }
 
 } // namespace
 
 std::vector<std::string> limit_names() {
     std::vector<std::string> v;
-    for (const auto& s : limit_specs)
-        v.emplace_back(s.name);
+    for (const auto& s : limit_specs) v.emplace_back(s.name);
     for (const char* s :
          {"height<=", "footprint<=", "f_sw<=", "f_sw>=", "efficiency>=", "tj<=", "ripple<="})
         v.emplace_back(s);
@@ -84,18 +81,12 @@ void apply_limit(design::Design& d, std::string_view spec) {
     }
     const std::string value = trim(text.substr(vpos));
     // Short forms.
-    if (name == "height")
-        name = "height_max";
-    else if (name == "footprint")
-        name = "footprint_max";
-    else if (name == "efficiency")
-        name = "efficiency_min";
-    else if (name == "tj")
-        name = "tj_max";
-    else if (name == "ripple")
-        name = "load_ripple";
-    else if (name == "t_inductor")
-        name = "t_inductor_max";
+    if (name == "height") name = "height_max";
+    else if (name == "footprint") name = "footprint_max";
+    else if (name == "efficiency") name = "efficiency_min";
+    else if (name == "tj") name = "tj_max";
+    else if (name == "ripple") name = "load_ripple";
+    else if (name == "t_inductor") name = "t_inductor_max";
     else if (name == "f_sw") {
         if (op == Direction::either)
             throw UsageError("--limit \"" + text +
@@ -108,8 +99,7 @@ void apply_limit(design::Design& d, std::string_view spec) {
         if (s.name == name) ls = &s;
     if (ls == nullptr) {
         std::string known;
-        for (const auto& n : limit_names())
-            known += (known.empty() ? "" : ", ") + n;
+        for (const auto& n : limit_names()) known += (known.empty() ? "" : ", ") + n;
         throw UsageError("--limit \"" + text + "\": unknown limit \"" + name +
                          "\"; known: " + known);
     }
@@ -130,28 +120,17 @@ void apply_limit(design::Design& d, std::string_view spec) {
     if (ls->dim == u::Dimension::ratio && name != "load_ripple" && v > 1.0)
         throw UsageError("--limit \"" + text + "\": " + name + " is a fraction of at most 100 %");
     auto& l = d.limits;
-    if (name == "load_ripple")
-        l.load_ripple = v;
-    else if (name == "f_sw_min")
-        l.f_sw_min = v;
-    else if (name == "f_sw_max")
-        l.f_sw_max = v;
-    else if (name == "isat_derating")
-        l.isat_derating = v;
-    else if (name == "vrrm_derating")
-        l.vrrm_derating = v;
-    else if (name == "diode_current_derating")
-        l.diode_current_derating = v;
-    else if (name == "tj_max")
-        l.tj_max = v;
-    else if (name == "t_inductor_max")
-        l.t_inductor_max = v;
-    else if (name == "height_max")
-        l.height_max = v;
-    else if (name == "footprint_max")
-        l.footprint_max = v;
-    else if (name == "efficiency_min")
-        l.efficiency_min = v;
+    if (name == "load_ripple") l.load_ripple = v;
+    else if (name == "f_sw_min") l.f_sw_min = v;
+    else if (name == "f_sw_max") l.f_sw_max = v;
+    else if (name == "isat_derating") l.isat_derating = v;
+    else if (name == "vrrm_derating") l.vrrm_derating = v;
+    else if (name == "diode_current_derating") l.diode_current_derating = v;
+    else if (name == "tj_max") l.tj_max = v;
+    else if (name == "t_inductor_max") l.t_inductor_max = v;
+    else if (name == "height_max") l.height_max = v;
+    else if (name == "footprint_max") l.footprint_max = v;
+    else if (name == "efficiency_min") l.efficiency_min = v;
 }
 
 void apply_weight(design::Design& d, std::string_view spec) {
@@ -170,16 +149,11 @@ void apply_weight(design::Design& d, std::string_view spec) {
     if (!(v >= 0.0) || !std::isfinite(v))
         throw UsageError("--weight \"" + text + "\": a weight is a number >= 0");
     auto& w = d.weights;
-    if (name == "loss")
-        w.loss = v;
-    else if (name == "size")
-        w.size = v;
-    else if (name == "ripple")
-        w.ripple = v;
-    else if (name == "margin")
-        w.margin = v;
-    else if (name == "cost")
-        w.cost = v;
+    if (name == "loss") w.loss = v;
+    else if (name == "size") w.size = v;
+    else if (name == "ripple") w.ripple = v;
+    else if (name == "margin") w.margin = v;
+    else if (name == "cost") w.cost = v;
     else
         throw UsageError("--weight \"" + text + "\": unknown objective \"" + name +
                          "\"; known: loss, size, ripple, margin, cost");
@@ -191,8 +165,8 @@ void apply_pareto(design::Design& d, std::string_view list) {
     std::size_t start = 0;
     while (start <= text.size()) {
         const auto comma = text.find(',', start);
-        const std::string name =
-            trim(text.substr(start, comma == std::string::npos ? std::string::npos : comma - start));
+        const std::string name = trim(
+            text.substr(start, comma == std::string::npos ? std::string::npos : comma - start));
         const auto o = design::objective_from_name(name);
         if (!o)
             throw UsageError("--pareto \"" + text + "\": unknown objective \"" + name +
@@ -204,16 +178,15 @@ void apply_pareto(design::Design& d, std::string_view list) {
         start = comma + 1;
     }
     if (axes.size() < 2)
-        throw UsageError("--pareto \"" + text + "\": give at least two objectives, e.g. "
+        throw UsageError("--pareto \"" + text +
+                         "\": give at least two objectives, e.g. "
                          "loss,size,ripple");
     d.pareto = std::move(axes);
 }
 
 void apply_overrides(design::Design& d, const RankCliOptions& o) {
-    for (const auto& l : o.limits)
-        apply_limit(d, l);
-    for (const auto& w : o.weights)
-        apply_weight(d, w);
+    for (const auto& l : o.limits) apply_limit(d, l);
+    for (const auto& w : o.weights) apply_weight(d, w);
     if (!o.pareto.empty()) apply_pareto(d, o.pareto);
     const auto& l = d.limits;
     if (l.f_sw_max && *l.f_sw_max < l.f_sw_min)

@@ -136,10 +136,8 @@ int run_study_diff(const StudyOptions& o, Context& ctx) {
     const auto a = get_study(ctx, o.name);
     const auto b = get_study(ctx, o.other);
     const auto d = studies::diff_studies(a, b);
-    if (o.json)
-        ctx.out() << studies::diff_json(d).dump(2) << "\n";
-    else
-        ctx.out() << studies::diff_text(d);
+    if (o.json) ctx.out() << studies::diff_json(d).dump(2) << "\n";
+    else ctx.out() << studies::diff_text(d);
     return exit_ok;
 }
 

@@ -121,10 +121,8 @@ SweepSpec parse_sweep(std::string_view text, const design::Design& d) {
 design::Design with_value(const design::Design& d, const SweepSpec& s, double value) {
     nlohmann::json j = design::to_json(d);
     nlohmann::json* p = &j;
-    for (const auto& k : s.path)
-        p = &(*p)[k];
-    if (s.dimension == u::Dimension::temperature)
-        *p = u::to_celsius(value);
+    for (const auto& k : s.path) p = &(*p)[k];
+    if (s.dimension == u::Dimension::temperature) *p = u::to_celsius(value);
     else if (s.path.back() == "band" && s.dimension == u::Dimension::current) {
         std::ostringstream os;
         os.precision(17);
@@ -182,8 +180,7 @@ int run_sweep(const SweepOptions& o, Context& ctx) {
         j["steps"] = nlohmann::json::array();
         for (const auto& st : steps) {
             nlohmann::json e{{"value", st.value}, {"changed", st.changed}};
-            if (st.s.result.top.empty())
-                e["best"] = nullptr;
+            if (st.s.result.top.empty()) e["best"] = nullptr;
             else
                 e["best"] = studies::pair_to_json(st.s.result.top.front(), st.s.result,
                                                   st.s.inductors, st.s.diodes, false);

@@ -105,8 +105,8 @@ std::vector<Corner> make_corners(const design::Design& d, double l_tolerance) {
             0.0, false);
     if (cold) {
         const loads::LoadPoint hvc = highest_voltage(loads::load_points(d.load, t_cold));
-        add(hvc.name + " vin-min cold" + tolerance_tag(tol, -1), d.supply.min, t_cold, -1, true, hvc,
-            0.0, false);
+        add(hvc.name + " vin-min cold" + tolerance_tag(tol, -1), d.supply.min, t_cold, -1, true,
+            hvc, 0.0, false);
     }
     return out;
 }

@@ -13,7 +13,8 @@
 namespace coilsieve::converter {
 
 // The switch is taken this far above the corner's ambient for its R_on(T) (an assumption: the
-// design gives no thermal data for the switch; 30 K is a typical rise of a small MOSFET on a board).
+// design gives no thermal data for the switch; 30 K is a typical rise of a small MOSFET on a
+// board).
 constexpr double switch_temperature_rise = 30.0; // K
 
 // The corners of a design for a part with inductance tolerance `l_tolerance` (fraction).
@@ -35,20 +36,20 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
 // One limit checked at one corner. margin = (bound - value)/|bound| for upper limits, the
 // opposite for lower ones: >= 0 holds, < 0 broken. The optimiser uses margins as constraints.
 struct LimitCheck {
-    std::string limit;   // "load_ripple", "f_sw_max", "isat", "vrrm", "tj_max", ...
-    std::string corner;  // corner name, or "" for part-only limits (height)
-    double value = 0.0;  // SI
-    double bound = 0.0;  // SI
+    std::string limit;  // "load_ripple", "f_sw_max", "isat", "vrrm", "tj_max", ...
+    std::string corner; // corner name, or "" for part-only limits (height)
+    double value = 0.0; // SI
+    double bound = 0.0; // SI
     double margin = 0.0;
     std::string message; // plain sentence with numbers, for a broken limit
 };
 
 struct PairEvaluation {
     std::vector<CornerResult> corners;
-    std::vector<LimitCheck> checks;       // every limit at every corner
-    std::vector<LimitCheck> violations;   // the broken ones
+    std::vector<LimitCheck> checks;     // every limit at every corner
+    std::vector<LimitCheck> violations; // the broken ones
     bool feasible = false;
-    double loss_nominal = 0.0;            // W at the nominal corner, or time-weighted for a charger
+    double loss_nominal = 0.0; // W at the nominal corner, or time-weighted for a charger
     double efficiency_nominal = 0.0;
 };
 

@@ -13,10 +13,14 @@ nlohmann::json num(double v) { return std::isfinite(v) ? nlohmann::json(v) : nlo
 
 std::string_view to_string(CornerStatus s) {
     switch (s) {
-    case CornerStatus::ok: return "ok";
-    case CornerStatus::no_regulation: return "no_regulation";
-    case CornerStatus::thermal_runaway: return "thermal_runaway";
-    case CornerStatus::no_convergence: return "no_convergence";
+    case CornerStatus::ok:
+        return "ok";
+    case CornerStatus::no_regulation:
+        return "no_regulation";
+    case CornerStatus::thermal_runaway:
+        return "thermal_runaway";
+    case CornerStatus::no_convergence:
+        return "no_convergence";
     }
     return "unknown";
 }
@@ -78,7 +82,7 @@ void to_json(nlohmann::json& j, const CornerResult& r) {
 }
 
 void to_json(nlohmann::json& j, const LimitCheck& k) {
-    j = nlohmann::json{{"limit", k.limit},   {"corner", k.corner}, {"value", num(k.value)},
+    j = nlohmann::json{{"limit", k.limit},      {"corner", k.corner},      {"value", num(k.value)},
                        {"bound", num(k.bound)}, {"margin", num(k.margin)}, {"message", k.message}};
 }
 

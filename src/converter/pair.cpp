@@ -96,7 +96,8 @@ PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
     const design::Limits& lim = d.limits;
     Checker check(e);
     const double isat_bound = lim.isat_derating * l.isat;
-    const double t_l_bound = lim.t_inductor_max ? std::min(lm.t_max, *lim.t_inductor_max) : lm.t_max;
+    const double t_l_bound =
+        lim.t_inductor_max ? std::min(lm.t_max, *lim.t_inductor_max) : lm.t_max;
     const double tj_bound = lim.tj_max ? std::min(dm.tj_max, *lim.tj_max) : dm.tj_max;
     const double vr_bound = lim.vrrm_derating * diode.vrrm;
     const double id_bound = lim.diode_current_derating * diode.if_avg;
@@ -104,8 +105,9 @@ PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
 
     // Reverse voltage: once, at the highest supply (it does not depend on the corner's result).
     if (!corners.empty()) {
-        const auto worst = std::max_element(corners.begin(), corners.end(),
-                                            [](const Corner& a, const Corner& b) { return a.vin < b.vin; });
+        const auto worst =
+            std::max_element(corners.begin(), corners.end(),
+                             [](const Corner& a, const Corner& b) { return a.vin < b.vin; });
         const double vr = worst->vin;
         check.upper("vrrm", worst->name, vr, vr_bound, [&] {
             return "diode reverse voltage " + fmt(vr, Dimension::voltage) + " exceeds " +
@@ -120,17 +122,18 @@ PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
         const std::string& cn = r.name;
         if (r.status != CornerStatus::ok) {
             const bool regulation = r.status == CornerStatus::no_regulation;
-            const std::string_view limit = r.status == CornerStatus::thermal_runaway ? "thermal_runaway"
-                                           : regulation                            ? "regulation"
-                                                                                   : "convergence";
-            const double margin = regulation && r.regulation_headroom < 0.0 ? r.regulation_headroom : -1.0;
+            const std::string_view limit = r.status == CornerStatus::thermal_runaway
+                                               ? "thermal_runaway"
+                                           : regulation ? "regulation"
+                                                        : "convergence";
+            const double margin =
+                regulation && r.regulation_headroom < 0.0 ? r.regulation_headroom : -1.0;
             check.add(limit, cn, r.regulation_headroom, 0.0, margin,
                       [&] { return name_part(r.reason, l, diode) + at(cn); });
             continue;
         }
-        check.lower("regulation", cn, r.regulation_headroom, 0.0, [&] {
-            return "the supply cannot hold the target current" + at(cn);
-        });
+        check.lower("regulation", cn, r.regulation_headroom, 0.0,
+                    [&] { return "the supply cannot hold the target current" + at(cn); });
         if (lim.load_ripple) {
             const double ripple = r.load_ripple_pp / c.point.current;
             check.upper("load_ripple", cn, ripple, *lim.load_ripple, [&] {
@@ -157,8 +160,8 @@ PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
                    " exceeds its rating " + fmt(l.irms, Dimension::current) + at(cn);
         });
         check.upper("t_inductor", cn, r.t_inductor, t_l_bound, [&] {
-            return "inductor hot spot " + fmt(r.t_inductor, Dimension::temperature) +
-                   " exceeds " + fmt(t_l_bound, Dimension::temperature) + at(cn);
+            return "inductor hot spot " + fmt(r.t_inductor, Dimension::temperature) + " exceeds " +
+                   fmt(t_l_bound, Dimension::temperature) + at(cn);
         });
         if (diode.if_avg > 0.0)
             check.upper("diode_current", cn, r.id_avg, id_bound, [&] {

@@ -33,8 +33,9 @@ struct Stretch {
 
 namespace detail {
 
-// phi1(z) = (1 − e^−z)/z, phi2(z) = (z − 1 + e^−z)/z², phi3(z) = (z − 2(1 − e^−z) + (1 − e^−2z)/2)/z³,
-// the shapes of the exponential's first integrals; Taylor series near 0 avoid the cancellation.
+// phi1(z) = (1 − e^−z)/z, phi2(z) = (z − 1 + e^−z)/z², phi3(z) = (z − 2(1 − e^−z) + (1 −
+// e^−2z)/2)/z³, the shapes of the exponential's first integrals; Taylor series near 0 avoid the
+// cancellation.
 struct Phi {
     double p1, p2, p3;
 };
@@ -43,13 +44,12 @@ inline Phi phi(double z) {
     if (z < 0.05) {
         // Taylor series in x = −z, Horner form, 8 terms (next term < 1e-16 relative):
         // phi1 = Σ x^k/(k+1)!, phi2 = Σ x^k/(k+2)!, phi3 = Σ (2^(k+2) − 2)/(k+3)! · x^k.
-        constexpr double c1[8] = {1.0,       1.0 / 2,    1.0 / 6,     1.0 / 24,
-                                  1.0 / 120, 1.0 / 720,  1.0 / 5040,  1.0 / 40320};
+        constexpr double c1[8] = {1.0,       1.0 / 2,   1.0 / 6,    1.0 / 24,
+                                  1.0 / 120, 1.0 / 720, 1.0 / 5040, 1.0 / 40320};
         constexpr double c2[8] = {1.0 / 2,   1.0 / 6,    1.0 / 24,    1.0 / 120,
                                   1.0 / 720, 1.0 / 5040, 1.0 / 40320, 1.0 / 362880};
-        constexpr double c3[8] = {2.0 / 6,          6.0 / 24,        14.0 / 120,
-                                  30.0 / 720,       62.0 / 5040,     126.0 / 40320,
-                                  254.0 / 362880,   510.0 / 3628800};
+        constexpr double c3[8] = {2.0 / 6,     6.0 / 24,      14.0 / 120,     30.0 / 720,
+                                  62.0 / 5040, 126.0 / 40320, 254.0 / 362880, 510.0 / 3628800};
         const double x = -z;
         double p1 = c1[7], p2 = c2[7], p3 = c3[7];
         for (int k = 6; k >= 0; --k) {
@@ -59,7 +59,7 @@ inline Phi phi(double z) {
         }
         return {p1, p2, p3};
     }
-    const double em1 = std::expm1(-z);      // e^−z − 1
+    const double em1 = std::expm1(-z);       // e^−z − 1
     const double em2 = std::expm1(-2.0 * z); // e^−2z − 1
     const double z2 = z * z;
     return {-em1 / z, (z + em1) / z2, (z + 2.0 * em1 - 0.5 * em2) / (z2 * z)};

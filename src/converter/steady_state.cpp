@@ -29,14 +29,14 @@ namespace {
 
 using units::Dimension;
 
-constexpr double t25 = 298.15;            // K, reference of the switch's R_on
-constexpr double temperature_tol = 0.05;  // K, thermal fixed point
-constexpr double current_tol = 1e-6;      // relative to the target, linearisation points
+constexpr double t25 = 298.15;           // K, reference of the switch's R_on
+constexpr double temperature_tol = 0.05; // K, thermal fixed point
+constexpr double current_tol = 1e-6;     // relative to the target, linearisation points
 constexpr int max_iterations = 50;
-constexpr double diode_runaway_margin = 100.0;   // K beyond tj_max: leakage has run away
+constexpr double diode_runaway_margin = 100.0;    // K beyond tj_max: leakage has run away
 constexpr double inductor_runaway_margin = 300.0; // K beyond t_max: the winding has run away
-constexpr int sub_stretches = 4;          // per ramp when L(i) varies over the ripple
-constexpr double flat_inductance = 1e-3;  // relative L change over the ripple treated as flat
+constexpr int sub_stretches = 4;                  // per ramp when L(i) varies over the ripple
+constexpr double flat_inductance = 1e-3; // relative L change over the ripple treated as flat
 constexpr double d_min = 1e-9, d_max = 1.0 - 1e-9;
 
 std::string fmt(double v, Dimension d) { return units::format(v, d); }
@@ -406,10 +406,8 @@ double brent_root(F&& f, double a, double b, double fa, double fb, double xtol, 
                 p = s * (2.0 * m * qq * (qq - r) - (b - a) * (r - 1.0));
                 q = (qq - 1.0) * (r - 1.0) * (s - 1.0);
             }
-            if (p > 0.0)
-                q = -q;
-            else
-                p = -p;
+            if (p > 0.0) q = -q;
+            else p = -p;
             if (2.0 * p < std::min(3.0 * m * q - std::abs(tol * q), std::abs(e * q))) {
                 e = d;
                 d = p / q;
@@ -469,9 +467,9 @@ CornerResult fail(CornerResult r, CornerStatus status, std::string reason) {
 // (current divider). k = |Z_c/(Z_c + r)| is the share through the load; the ripple sees the
 // parallel impedance, whose real part is the power it dissipates (load share + ESR share).
 struct RipplePath {
-    double k_load = 1.0;    // |I_load,ripple / I_L,ripple|
-    double k_cap2 = 0.0;    // |I_cap,ripple / I_L,ripple|²
-    double r_ripple = 0.0;  // Ω, Re(r ∥ Z_c): what the ripple current works against
+    double k_load = 1.0;   // |I_load,ripple / I_L,ripple|
+    double k_cap2 = 0.0;   // |I_cap,ripple / I_L,ripple|²
+    double r_ripple = 0.0; // Ω, Re(r ∥ Z_c): what the ripple current works against
 };
 
 RipplePath ripple_path(double r, double capacitance, double esr, double frequency) {
@@ -537,7 +535,8 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
     const double vin = c.vin;
     if (!(target > 0.0))
         return fail(res, CornerStatus::no_regulation,
-                    "load point \"" + c.point.name + "\" asks for " + fmt(target, Dimension::current) +
+                    "load point \"" + c.point.name + "\" asks for " +
+                        fmt(target, Dimension::current) +
                         "; a target current above zero is needed");
     if (!(l.l0 > 0.0) || !(l.isat > 0.0))
         return fail(res, CornerStatus::no_convergence,
@@ -575,8 +574,8 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
 
     // Switch R_on rises linearly from its 25 °C value (design.hpp); the switch sits at a fixed
     // rise above ambient (switch_temperature_rise, an assumption).
-    const double ron = std::max(
-        0.0, d.sw.on_resistance * (1.0 + d.sw.on_resistance_tempco * (res.t_switch - t25)));
+    const double ron = std::max(0.0, d.sw.on_resistance *
+                                         (1.0 + d.sw.on_resistance_tempco * (res.t_switch - t25)));
     const double r_sense = std::max(0.0, d.sense_resistor);
     const double v0 = c.point.v0;
     const double r_load = std::max(0.0, c.point.r);
@@ -607,7 +606,7 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
     double dcr = 0.0, rd = 0.0, vd0 = 0.0;
     RipplePath path;
     Segment on, off;
-    Segment prev_off;        // off segment of the previous pass: dt/di weights of the diode fit
+    Segment prev_off; // off segment of the previous pass: dt/di weights of the diode fit
     bool have_prev_off = false;
     double e_cond = 0.0; // J per cycle, ∫ V_f(i)·i dt over the diode's interval
     double copper = 0.0, core = 0.0, leak = 0.0;
@@ -624,7 +623,8 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
         iterations = it + 1;
         dcr = l.dcr(t_l, c.dcr_max);
 
-        // Diode V_f at five currents over the present ripple (the fit and Simpson's rule share them).
+        // Diode V_f at five currents over the present ripple (the fit and Simpson's rule share
+        // them).
         const Forward vf{diode.fwd.n * parts::thermal_voltage(tj), diode.saturation_current(tj),
                          diode.fwd.rs};
         double node[5], vnode[5];
@@ -664,7 +664,8 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
             vd0 = vf(im) - rd * im;
         }
 
-        path = capacitor ? ripple_path(r_load, cap_c, cap_esr, f_prev) : RipplePath{1.0, 0.0, r_load};
+        path =
+            capacitor ? ripple_path(r_load, cap_c, cap_esr, f_prev) : RipplePath{1.0, 0.0, r_load};
         // The load voltage the inductor sees: DC at v0 + r·I, ripple through r ∥ Z_c.
         const double v0_eff = v0 + (r_load - path.r_ripple) * i_avg_prev;
         on = Segment{vin - v0_eff, path.r_ripple + ron + r_sense + dcr, 0.0};
@@ -690,7 +691,8 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
         if (!(off.v(hysteretic ? i_lo : 0.0) < 0.0))
             return fail(res, CornerStatus::no_regulation,
                         "the load and diode voltage cannot bring the inductor current down to the "
-                        "lower threshold " + fmt(i_lo, Dimension::current));
+                        "lower threshold " +
+                            fmt(i_lo, Dimension::current));
 
         Inductance ind{l, c.l_scale, true, l_eff};
         if (hysteretic) {
@@ -706,15 +708,14 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
             // The charge correction enters relaxed (half steps): fed back at once it makes the
             // outer fixed point oscillate deep in the roll-off.
             dq_used = 0.5 * (dq_used + pl.dq_on + pl.dq_off);
-            const double share_on = pl.dq_on + pl.dq_off != 0.0
-                                        ? pl.dq_on / (pl.dq_on + pl.dq_off) : 0.5;
+            const double share_on =
+                pl.dq_on + pl.dq_off != 0.0 ? pl.dq_on / (pl.dq_on + pl.dq_off) : 0.5;
             const double target_lin = target - dq_used / period;
             double duty = 0.0;
             // First guess from the averaged model: I·(R1·D + R2·(1 − D)) = E1·D + E2·(1 − D).
-            double guess =
-                duty_prev > 0.0
-                    ? duty_prev
-                    : (target * off.r - off.e) / ((on.e - off.e) - target * (on.r - off.r));
+            double guess = duty_prev > 0.0 ? duty_prev
+                                           : (target * off.r - off.e) /
+                                                 ((on.e - off.e) - target * (on.r - off.r));
             if (!std::isfinite(guess)) guess = 0.5;
             const double step = duty_prev > 0.0 ? 1e-3 : 0.02;
             if (!solve_duty(on, off, period, target_lin, std::clamp(guess, 1e-3, 0.999), step,
@@ -730,11 +731,15 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
             two_state = false;
             if (capacitor && !w.dcm) {
                 const double den = r_load + cap_esr;
-                const Output2 o{r_load / den, r_load * cap_esr / den, cap_esr * v0 / den, r_load, v0};
+                const Output2 o{r_load / den, r_load * cap_esr / den, cap_esr * v0 / den, r_load,
+                                v0};
                 auto lin = [&](double e, double rs, double lx) {
-                    return Lin2{-(rs + o.beta) / lx,          -o.alpha / lx,
-                                (1.0 - o.beta / r_load) / cap_c, -o.alpha / (r_load * cap_c),
-                                (e - o.gamma) / lx,              (v0 - o.gamma) / (r_load * cap_c)};
+                    return Lin2{-(rs + o.beta) / lx,
+                                -o.alpha / lx,
+                                (1.0 - o.beta / r_load) / cap_c,
+                                -o.alpha / (r_load * cap_c),
+                                (e - o.gamma) / lx,
+                                (v0 - o.gamma) / (r_load * cap_c)};
                 };
                 const Lin2 a_on = lin(vin, ron + r_sense + dcr, on.l);
                 const Lin2 a_off = lin(-vd0, r_sense + dcr + rd, off.l);
@@ -744,8 +749,10 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
                 };
                 double da = std::max(d_min, duty - 0.02), db = std::min(d_max, duty + 0.02);
                 double fa = g2(da), fb = g2(db);
-                for (int k = 0; k < 8 && fa > 0.0 && da > d_min; ++k) fa = g2(da = std::max(d_min, da - 0.05));
-                for (int k = 0; k < 8 && fb < 0.0 && db < d_max; ++k) fb = g2(db = std::min(d_max, db + 0.05));
+                for (int k = 0; k < 8 && fa > 0.0 && da > d_min; ++k)
+                    fa = g2(da = std::max(d_min, da - 0.05));
+                for (int k = 0; k < 8 && fb < 0.0 && db < d_max; ++k)
+                    fb = g2(db = std::min(d_max, db + 0.05));
                 if (fa <= 0.0 && fb >= 0.0) {
                     const double d2 = brent_root(g2, da, db, fa, fb, 1e-13, 1e-10 * target, 100);
                     const Wave2 x = pwm_wave2(a_on, a_off, o, period, d2, true);
@@ -815,10 +822,10 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
 
         const double dl = t_l_new - t_l;
         const double dj = tj_new - tj;
-        const bool states_settled =
-            std::abs(w.i_valley - lin_lo) <= tol_i && std::abs(w.i_peak - lin_hi) <= tol_i &&
-            std::abs(i_avg - i_avg_prev) <= tol_i &&
-            (!capacitor || std::abs(f - f_prev) <= 1e-6 * f);
+        const bool states_settled = std::abs(w.i_valley - lin_lo) <= tol_i &&
+                                    std::abs(w.i_peak - lin_hi) <= tol_i &&
+                                    std::abs(i_avg - i_avg_prev) <= tol_i &&
+                                    (!capacitor || std::abs(f - f_prev) <= 1e-6 * f);
         if (std::abs(dl) < temperature_tol && std::abs(dj) < temperature_tol && states_settled) {
             converged = true;
             break;
@@ -830,7 +837,8 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
                         "thermal runaway of the diode: its reverse leakage at " +
                             fmt(vin, Dimension::voltage) +
                             " grows with temperature faster than the junction sheds heat (" +
-                            fmt(leak, Dimension::power) + " of leakage loss with the junction past " +
+                            fmt(leak, Dimension::power) +
+                            " of leakage loss with the junction past " +
                             fmt(diode.tj_max + diode_runaway_margin, Dimension::temperature) +
                             "; rating " + fmt(diode.tj_max, Dimension::temperature) + ")");
         if (t_l_new > l.t_max + inductor_runaway_margin)
@@ -862,7 +870,8 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
         if (tj_new > tj && leak > 0.5 * (tj_new - amb) / std::max(diode.rth_ja, 1e-12))
             return fail(res, CornerStatus::thermal_runaway,
                         "thermal runaway of the diode: the junction keeps heating through its "
-                        "reverse leakage at " + fmt(vin, Dimension::voltage) + " (" +
+                        "reverse leakage at " +
+                            fmt(vin, Dimension::voltage) + " (" +
                             fmt(tj_new, Dimension::temperature) + " and rising, rating " +
                             fmt(diode.tj_max, Dimension::temperature) + ")");
         return fail(res, CornerStatus::no_convergence,
@@ -913,7 +922,8 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
     // switch charges it, plus recovery Q_rr(i_valley)·V_R·f (Erickson & Maksimović 2nd ed.
     // §4.3.2). Both are dissipated mostly in the switch but follow from the choice of diode, so
     // they are booked here.
-    p.diode_switching = (diode.capacitive_energy(vin) + diode.recovery_charge(w.i_valley) * vin) * f;
+    p.diode_switching =
+        (diode.capacitive_energy(vin) + diode.recovery_charge(w.i_valley) * vin) * f;
     // Leakage: I_R(V_R, Tj)·V_R while the switch is on (and at the load voltage while idle).
     p.diode_leakage = leak;
     // Switch conduction: R_on(T)·I_sw,rms².
@@ -921,20 +931,21 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
     // Switch transitions, linearised clamped-inductive waveforms (Mohan, Undeland, Robbins 3rd ed.
     // §2-7): ½·V·(I_on·t_r + I_off·t_f)·f with turn-on at the valley and turn-off at the peak;
     // gate charge Q_g·V_drive·f and output capacitance ½·C_oss·V²·f (common practice).
-    p.switch_switching =
-        0.5 * vin * (w.i_valley * d.sw.rise_time + w.i_peak * d.sw.fall_time) * f +
-        d.sw.gate_charge * d.sw.drive_voltage * f + 0.5 * d.sw.output_capacitance * vin * vin * f;
+    p.switch_switching = 0.5 * vin * (w.i_valley * d.sw.rise_time + w.i_peak * d.sw.fall_time) * f +
+                         d.sw.gate_charge * d.sw.drive_voltage * f +
+                         0.5 * d.sw.output_capacitance * vin * vin * f;
     p.sense = r_sense * i_rms2;
     p.capacitor = two_state ? cap_esr * cap_q2_2 : cap_esr * path.k_cap2 * rip2;
     p.total = p.inductor_copper + p.inductor_core + p.diode_conduction + p.diode_switching +
               p.diode_leakage + p.switch_conduction + p.switch_switching + p.sense + p.capacitor;
 
     // Output power: the average of v_load·i_load = v0·I + r·I_load,rms².
-    res.p_out = two_state ? v0 * i_avg + r_load * load_q2_2
-                          : v0 * i_avg + r_load * (i_avg * i_avg + path.k_load * path.k_load * rip2);
+    res.p_out = two_state
+                    ? v0 * i_avg + r_load * load_q2_2
+                    : v0 * i_avg + r_load * (i_avg * i_avg + path.k_load * path.k_load * rip2);
     // Supply power: the waveform's vin·I_sw,avg plus what the waveform does not carry.
-    const double outside = (p.inductor_copper - dcr * i_rms2) + p.inductor_core + p.diode_switching +
-                           p.diode_leakage + p.switch_switching;
+    const double outside = (p.inductor_copper - dcr * i_rms2) + p.inductor_core +
+                           p.diode_switching + p.diode_leakage + p.switch_switching;
     res.p_in = vin * res.isw_avg + outside;
     const double denom = res.p_out + p.total;
     res.efficiency = denom > 0.0 ? std::clamp(res.p_out / denom, 0.0, 1.0) : 0.0;

@@ -17,14 +17,14 @@ struct Supply {
 
 // Defaults: a generic small MOSFET, printed when used (see design_json.cpp).
 struct Switch {
-    double on_resistance = 0.1;      // Ω at 25 °C
+    double on_resistance = 0.1;          // Ω at 25 °C
     double on_resistance_tempco = 0.004; // 1/K, relative rise per kelvin
-    double rise_time = 20e-9;        // s
-    double fall_time = 20e-9;        // s
-    double gate_charge = 10e-9;      // C
-    double drive_voltage = 10.0;     // V
+    double rise_time = 20e-9;            // s
+    double fall_time = 20e-9;            // s
+    double gate_charge = 10e-9;          // C
+    double drive_voltage = 10.0;         // V
     double output_capacitance = 100e-12; // F
-    std::vector<std::string> defaulted; // fields that took the default
+    std::vector<std::string> defaulted;  // fields that took the default
 };
 
 struct OutputCapacitor {
@@ -40,31 +40,31 @@ struct Control {
     // target current (band_is_fraction) or in amperes.
     double band = 0.2;
     bool band_is_fraction = true;
-    double delay = 0.0;               // s, comparator + gate-drive delay
+    double delay = 0.0;                     // s, comparator + gate-drive delay
     double band_min = 0.05, band_max = 0.6; // same unit as band
     // PWM
-    double frequency = 0.0;           // Hz
+    double frequency = 0.0; // Hz
     double frequency_min = 20e3, frequency_max = 2e6;
 };
 
 struct Ambient {
-    double max = 298.15;              // K
-    std::optional<double> min;        // K
+    double max = 298.15;       // K
+    std::optional<double> min; // K
 };
 
 // Every limit is optional; absent means "not checked".
 struct Limits {
-    std::optional<double> load_ripple;      // fraction p-p of average load current
-    double f_sw_min = 20e3;                 // Hz, above hearing (common practice)
-    std::optional<double> f_sw_max;         // Hz
-    double isat_derating = 0.8;             // peak <= derating * Isat (common practice)
-    double vrrm_derating = 0.8;             // reverse voltage <= derating * Vrrm (common practice)
-    double diode_current_derating = 0.8;    // diode average <= derating * If(AV) (common practice)
-    std::optional<double> tj_max;           // K
-    std::optional<double> t_inductor_max;   // K
-    std::optional<double> height_max;       // m
-    std::optional<double> footprint_max;    // m^2
-    std::optional<double> efficiency_min;   // fraction
+    std::optional<double> load_ripple;    // fraction p-p of average load current
+    double f_sw_min = 20e3;               // Hz, above hearing (common practice)
+    std::optional<double> f_sw_max;       // Hz
+    double isat_derating = 0.8;           // peak <= derating * Isat (common practice)
+    double vrrm_derating = 0.8;           // reverse voltage <= derating * Vrrm (common practice)
+    double diode_current_derating = 0.8;  // diode average <= derating * If(AV) (common practice)
+    std::optional<double> tj_max;         // K
+    std::optional<double> t_inductor_max; // K
+    std::optional<double> height_max;     // m
+    std::optional<double> footprint_max;  // m^2
+    std::optional<double> efficiency_min; // fraction
 };
 
 struct Weights {
@@ -82,7 +82,7 @@ struct Design {
     Supply supply;
     loads::Load load;
     Switch sw;
-    double sense_resistor = 0.0;               // Ω
+    double sense_resistor = 0.0; // Ω
     std::optional<OutputCapacitor> output_capacitor;
     Control control;
     Ambient ambient;

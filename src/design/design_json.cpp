@@ -23,9 +23,7 @@ constexpr double t25 = 298.15; // K
 // Defaults of a generic small MOSFET (a 30–60 V, ~100 mΩ logic-level part; common practice).
 const Switch switch_defaults{};
 
-std::string quote(const json& v) {
-    return v.dump();
-}
+std::string quote(const json& v) { return v.dump(); }
 
 std::string shortest(double x) {
     std::array<char, 64> buf{};
@@ -119,8 +117,7 @@ bool parses_as(const std::string& s, Dimension d) {
 
 std::size_t edit_distance(std::string_view a, std::string_view b) {
     std::vector<std::size_t> row(b.size() + 1);
-    for (std::size_t j = 0; j <= b.size(); ++j)
-        row[j] = j;
+    for (std::size_t j = 0; j <= b.size(); ++j) row[j] = j;
     for (std::size_t i = 1; i <= a.size(); ++i) {
         std::size_t diag = row[0];
         row[0] = i;
@@ -214,8 +211,7 @@ public:
                 }
                 if (!matches.empty()) {
                     std::string as = matches.front();
-                    for (std::size_t k = 1; k < matches.size(); ++k)
-                        as += " or " + matches[k];
+                    for (std::size_t k = 1; k < matches.size(); ++k) as += " or " + matches[k];
                     fail(path, quote(v) + " is " + as + ", expected " + expected(d) + ", e.g. " +
                                    example(d));
                 }
@@ -270,10 +266,8 @@ public:
         d.load = load(require(j, "", "load",
                               "give e.g. {\"type\": \"led\", \"count\": 4, \"vf\": "
                               "\"3.05V\", \"current\": \"700mA\"}"));
-        if (const json* v = find(j, "switch"))
-            d.sw = switch_(*v);
-        else
-            d.sw = defaulted_switch();
+        if (const json* v = find(j, "switch")) d.sw = switch_(*v);
+        else d.sw = defaulted_switch();
         if (const json* v = find(j, "sense_resistor"))
             d.sense_resistor = non_negative(*v, "sense_resistor", Dimension::resistance);
         if (const json* v = find(j, "output_capacitor")) d.output_capacitor = capacitor(*v);
@@ -325,8 +319,7 @@ private:
                             "load.vf", Dimension::voltage);
             if (const json* x = find(v, "rd"))
                 s.rd = non_negative(*x, "load.rd", Dimension::resistance);
-            else
-                s.rd = 0.0;
+            else s.rd = 0.0;
             s.current = positive(require(v, p, "current", "give the LED current, e.g. \"700mA\""),
                                  "load.current", Dimension::current);
             if (const json* x = find(v, "vf_tempco"))
@@ -344,14 +337,10 @@ private:
             const std::string chem =
                 text(require(v, p, "chemistry", "give li-ion, li-ion-hv, lifepo4 or lead-acid"),
                      "load.chemistry");
-            if (chem == "li-ion")
-                b.chemistry = loads::Chemistry::li_ion;
-            else if (chem == "li-ion-hv")
-                b.chemistry = loads::Chemistry::li_ion_hv;
-            else if (chem == "lifepo4")
-                b.chemistry = loads::Chemistry::lifepo4;
-            else if (chem == "lead-acid")
-                b.chemistry = loads::Chemistry::lead_acid;
+            if (chem == "li-ion") b.chemistry = loads::Chemistry::li_ion;
+            else if (chem == "li-ion-hv") b.chemistry = loads::Chemistry::li_ion_hv;
+            else if (chem == "lifepo4") b.chemistry = loads::Chemistry::lifepo4;
+            else if (chem == "lead-acid") b.chemistry = loads::Chemistry::lead_acid;
             else
                 fail("load.chemistry", "unknown chemistry \"" + chem +
                                            "\"; known: li-ion, li-ion-hv, lifepo4, lead-acid");
@@ -366,8 +355,7 @@ private:
             if (const json* x = find(v, "termination_current"))
                 b.termination_current =
                     positive(*x, "load.termination_current", Dimension::current);
-            else
-                b.termination_current = pre.termination_fraction * b.capacity / 3600.0;
+            else b.termination_current = pre.termination_fraction * b.capacity / 3600.0;
             if (!(b.termination_current < b.charge_current))
                 fail("load.termination_current",
                      units::format(b.termination_current, Dimension::current) +
@@ -375,8 +363,7 @@ private:
                          units::format(b.charge_current, Dimension::current));
             if (const json* x = find(v, "precharge_current"))
                 b.precharge_current = positive(*x, "load.precharge_current", Dimension::current);
-            else
-                b.precharge_current = pre.precharge_fraction * b.charge_current;
+            else b.precharge_current = pre.precharge_fraction * b.charge_current;
             if (b.precharge_current > b.charge_current)
                 fail("load.precharge_current",
                      "must not exceed charge_current " +
@@ -415,10 +402,8 @@ private:
                     "gate_charge", "drive_voltage", "output_capacitance"});
         Switch s;
         auto field = [&](std::string_view key, double& out, Dimension d) {
-            if (const json* x = find(v, key))
-                out = non_negative(*x, child(p, key), d);
-            else
-                s.defaulted.emplace_back(key);
+            if (const json* x = find(v, key)) out = non_negative(*x, child(p, key), d);
+            else s.defaulted.emplace_back(key);
         };
         field("on_resistance", s.on_resistance, Dimension::resistance);
         field("on_resistance_tempco", s.on_resistance_tempco, Dimension::dimensionless);
@@ -874,34 +859,23 @@ json to_json(const Design& d) {
     return j;
 }
 
-void to_json(json& j, const Design& d) {
-    j = to_json(d);
-}
+void to_json(json& j, const Design& d) { j = to_json(d); }
 
-void from_json(const json& j, Design& d) {
-    d = read_design(j, "<json>");
-}
+void from_json(const json& j, Design& d) { d = read_design(j, "<json>"); }
 
 std::vector<std::string> switch_default_notes(const Switch& s) {
     std::vector<std::string> out;
     for (const auto& f : s.defaulted) {
         std::string v;
-        if (f == "on_resistance")
-            v = units::format(s.on_resistance, Dimension::resistance);
-        else if (f == "on_resistance_tempco")
-            v = shortest(s.on_resistance_tempco) + " /K";
-        else if (f == "rise_time")
-            v = units::format(s.rise_time, Dimension::time);
-        else if (f == "fall_time")
-            v = units::format(s.fall_time, Dimension::time);
-        else if (f == "gate_charge")
-            v = units::format(s.gate_charge, Dimension::charge);
-        else if (f == "drive_voltage")
-            v = units::format(s.drive_voltage, Dimension::voltage);
+        if (f == "on_resistance") v = units::format(s.on_resistance, Dimension::resistance);
+        else if (f == "on_resistance_tempco") v = shortest(s.on_resistance_tempco) + " /K";
+        else if (f == "rise_time") v = units::format(s.rise_time, Dimension::time);
+        else if (f == "fall_time") v = units::format(s.fall_time, Dimension::time);
+        else if (f == "gate_charge") v = units::format(s.gate_charge, Dimension::charge);
+        else if (f == "drive_voltage") v = units::format(s.drive_voltage, Dimension::voltage);
         else if (f == "output_capacitance")
             v = units::format(s.output_capacitance, Dimension::capacitance);
-        else
-            continue;
+        else continue;
         out.push_back("switch." + f + " = " + v + " (default for a generic small MOSFET)");
     }
     return out;

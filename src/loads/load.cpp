@@ -88,9 +88,7 @@ std::vector<LoadPoint> battery_points(const Battery& b, double temperature) {
 
 } // namespace
 
-const ChemistryPreset& preset(Chemistry c) {
-    return presets[static_cast<std::size_t>(c)];
-}
+const ChemistryPreset& preset(Chemistry c) { return presets[static_cast<std::size_t>(c)]; }
 
 std::vector<LoadPoint> load_points(const Load& load, double temperature) {
     return std::visit(

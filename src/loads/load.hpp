@@ -7,13 +7,14 @@
 
 namespace coilsieve::loads {
 
-// A string of `count` LEDs: V(I, T) = count * (vf + rd * (I - current) + vf_tempco * (T - 298.15 K)).
+// A string of `count` LEDs: V(I, T) = count * (vf + rd * (I - current) + vf_tempco * (T - 298.15
+// K)).
 struct LedString {
     int count = 1;
-    double vf = 3.0;           // V per LED at `current`, 25 °C
-    double rd = 0.0;           // Ω per LED, dynamic resistance
-    double current = 0.0;      // A, target (rated) current
-    double vf_tempco = -2e-3;  // V/K per LED (common practice default)
+    double vf = 3.0;          // V per LED at `current`, 25 °C
+    double rd = 0.0;          // Ω per LED, dynamic resistance
+    double current = 0.0;     // A, target (rated) current
+    double vf_tempco = -2e-3; // V/K per LED (common practice default)
 };
 
 enum class Chemistry { li_ion, li_ion_hv, lifepo4, lead_acid };
@@ -25,14 +26,14 @@ struct Battery {
     double charge_current = 0.0;      // A, constant-current phase
     double termination_current = 0.0; // A (preset fraction of capacity when not given)
     double internal_resistance = 0.0; // Ω, whole pack
-    double precharge_current = 0.0;  // A (preset when not given)
+    double precharge_current = 0.0;   // A (preset when not given)
 };
 
 // A constant-voltage sink with series resistance driven at a target current.
 struct Sink {
-    double voltage = 0.0;     // V
-    double resistance = 0.0;  // Ω
-    double current = 0.0;     // A, target
+    double voltage = 0.0;    // V
+    double resistance = 0.0; // Ω
+    double current = 0.0;    // A, target
 };
 
 using Load = std::variant<LedString, Battery, Sink>;
@@ -51,11 +52,11 @@ const ChemistryPreset& preset(Chemistry c);
 // One point a charger (or lamp) runs at: the load seen as a voltage source with series resistance
 // and the target average current there. `weight` is the fraction of time spent there.
 struct LoadPoint {
-    std::string name;      // "cc-start", "precharge", "nominal", ...
-    double v0 = 0.0;       // V, EMF / knee voltage at the point's temperature
-    double r = 0.0;        // Ω, series (dynamic or internal) resistance
-    double current = 0.0;  // A, target average current
-    double weight = 1.0;   // fraction of time (battery charge profile); sums to 1 over points
+    std::string name;     // "cc-start", "precharge", "nominal", ...
+    double v0 = 0.0;      // V, EMF / knee voltage at the point's temperature
+    double r = 0.0;       // Ω, series (dynamic or internal) resistance
+    double current = 0.0; // A, target average current
+    double weight = 1.0;  // fraction of time (battery charge profile); sums to 1 over points
 };
 
 // The load points of a load at a temperature (K). An LED string gives one point; a battery

@@ -13,12 +13,12 @@
 namespace coilsieve::optimisation {
 
 struct Objectives {
-    double loss = 0.0;      // W at the nominal corner (time-weighted for a charger)
+    double loss = 0.0; // W at the nominal corner (time-weighted for a charger)
     double efficiency = 0.0;
-    double ripple = 0.0;    // load ripple p-p as a fraction of the load current, worst corner
-    double size = 0.0;      // m^3, inductor body + diode package
-    double footprint = 0.0; // m^2, reported only
-    double margin = 0.0;    // 1 - peak/Isat at the worst corner; more is better
+    double ripple = 0.0;        // load ripple p-p as a fraction of the load current, worst corner
+    double size = 0.0;          // m^3, inductor body + diode package
+    double footprint = 0.0;     // m^2, reported only
+    double margin = 0.0;        // 1 - peak/Isat at the worst corner; more is better
     std::optional<double> cost; // sum of prices when both parts have one in the same currency
 };
 

@@ -1,22 +1,26 @@
 #include "optimisation/solver.hpp"
 
-#include <nlopt.h>
-
 #include <algorithm>
 #include <cmath>
 #include <exception>
 #include <memory>
+#include <nlopt.h>
 #include <stdexcept>
 
 namespace coilsieve::optimisation {
 
 const char* to_string(SolverStatus s) {
     switch (s) {
-    case SolverStatus::converged: return "converged";
-    case SolverStatus::max_evaluations: return "evaluation budget reached";
-    case SolverStatus::roundoff_limited: return "round-off limited";
-    case SolverStatus::forced_stop: return "forced stop";
-    case SolverStatus::failure: return "failure";
+    case SolverStatus::converged:
+        return "converged";
+    case SolverStatus::max_evaluations:
+        return "evaluation budget reached";
+    case SolverStatus::roundoff_limited:
+        return "round-off limited";
+    case SolverStatus::forced_stop:
+        return "forced stop";
+    case SolverStatus::failure:
+        return "failure";
     }
     return "failure";
 }
@@ -60,10 +64,9 @@ struct CallbackState {
             last_x.assign(x, x + n);
             last = problem->evaluate(std::span<const double>(last_x));
             if (last.constraints.size() != problem->constraint_count)
-                throw std::logic_error("optimisation problem returned " +
-                                       std::to_string(last.constraints.size()) +
-                                       " constraints, declared " +
-                                       std::to_string(problem->constraint_count));
+                throw std::logic_error(
+                    "optimisation problem returned " + std::to_string(last.constraints.size()) +
+                    " constraints, declared " + std::to_string(problem->constraint_count));
             has_last = true;
             ++solution->evaluations;
             Evaluated e{last_x, last, violation_of(last)};
@@ -148,11 +151,19 @@ Solution minimise_cobyla(const Problem& problem, std::vector<double> start,
     case NLOPT_SUCCESS:
     case NLOPT_STOPVAL_REACHED:
     case NLOPT_FTOL_REACHED:
-    case NLOPT_XTOL_REACHED: solution.status = SolverStatus::converged; break;
+    case NLOPT_XTOL_REACHED:
+        solution.status = SolverStatus::converged;
+        break;
     case NLOPT_MAXEVAL_REACHED:
-    case NLOPT_MAXTIME_REACHED: solution.status = SolverStatus::max_evaluations; break;
-    case NLOPT_ROUNDOFF_LIMITED: solution.status = SolverStatus::roundoff_limited; break;
-    case NLOPT_FORCED_STOP: solution.status = SolverStatus::forced_stop; break;
+    case NLOPT_MAXTIME_REACHED:
+        solution.status = SolverStatus::max_evaluations;
+        break;
+    case NLOPT_ROUNDOFF_LIMITED:
+        solution.status = SolverStatus::roundoff_limited;
+        break;
+    case NLOPT_FORCED_STOP:
+        solution.status = SolverStatus::forced_stop;
+        break;
     default:
         solution.status = SolverStatus::failure;
         if (const char* msg = nlopt_get_errmsg(opt.get())) solution.message = msg;

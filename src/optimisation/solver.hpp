@@ -29,7 +29,7 @@ struct Problem {
 struct SolverOptions {
     double relative_tolerance = 1e-4; // on x and on the objective
     int max_evaluations = 60;
-    double initial_step = 0.0;        // 0: NLopt's heuristic
+    double initial_step = 0.0; // 0: NLopt's heuristic
 };
 
 enum class SolverStatus { converged, max_evaluations, roundoff_limited, forced_stop, failure };
@@ -43,11 +43,11 @@ struct Evaluated {
 
 struct Solution {
     bool has_feasible = false;
-    Evaluated best_feasible;       // the lowest objective among feasible points seen
-    Evaluated least_violated;      // the point with the smallest violation (ties: lower objective)
+    Evaluated best_feasible;  // the lowest objective among feasible points seen
+    Evaluated least_violated; // the point with the smallest violation (ties: lower objective)
     SolverStatus status = SolverStatus::failure;
     int evaluations = 0;
-    std::string message;           // NLopt's own words when it failed
+    std::string message; // NLopt's own words when it failed
 };
 
 // Minimise from `start` (clamped into the bounds). Exceptions thrown by `evaluate` never cross the

@@ -7,9 +7,7 @@
 
 namespace coilsieve::optimisation {
 
-SettingRange fixed_range(Variable v, double value) {
-    return SettingRange{v, value, value, false};
-}
+SettingRange fixed_range(Variable v, double value) { return SettingRange{v, value, value, false}; }
 
 converter::Setting make_setting(const SettingRange& r, const converter::Setting& base,
                                 double value) {
@@ -31,8 +29,7 @@ const converter::LimitCheck* least_margin(const converter::PairEvaluation& e) {
 
 Scorer make_scorer(const parts::Inductor& l, const parts::Diode& diode, const design::Weights& w,
                    const Scales& s) {
-    return [&l, &diode, w, s](const converter::Setting& setting,
-                              converter::PairEvaluation&& e) {
+    return [&l, &diode, w, s](const converter::Setting& setting, converter::PairEvaluation&& e) {
         TunedPoint p;
         p.setting = setting;
         p.objectives = objectives_of(e, l, diode);
@@ -93,7 +90,8 @@ double violation(const converter::PairEvaluation& e) {
     double v = 0.0;
     for (const auto& c : e.checks) v = std::max(v, -safe_margin(c.margin));
     for (const auto& c : e.violations) v = std::max(v, -safe_margin(c.margin));
-    if (!e.feasible && v <= 0.0) v = std::numeric_limits<double>::min(); // infeasible for another reason
+    if (!e.feasible && v <= 0.0)
+        v = std::numeric_limits<double>::min(); // infeasible for another reason
     return v;
 }
 

@@ -31,7 +31,8 @@ SettingRange setting_range(const design::Design& d);
 SettingRange fixed_range(Variable v, double value);
 
 // The setting the tuner evaluates for a value of the free variable.
-converter::Setting make_setting(const SettingRange& r, const converter::Setting& base, double value);
+converter::Setting make_setting(const SettingRange& r, const converter::Setting& base,
+                                double value);
 
 struct TuneOptions {
     int prescan_points = 8;
@@ -49,7 +50,7 @@ struct TunedPoint {
 
 struct TuneResult {
     bool feasible = false;
-    TunedPoint best;              // feasible: the best point; infeasible: the least-violated one
+    TunedPoint best; // feasible: the best point; infeasible: the least-violated one
     SolverStatus status = SolverStatus::converged;
     bool solver_ran = false;
     int evaluations = 0;
@@ -73,8 +74,8 @@ std::vector<double> prescan_values(const SettingRange& range, const TuneOptions&
 // `hints`: extra values of the free variable evaluated after the pre-scan (e.g. where a bound
 // puts the optimum); the best of all of them starts the local solve.
 TuneResult tune(const SettingRange& range, const converter::Setting& base,
-                const PairEvaluator& evaluate, const Scorer& scorer, const TuneOptions& options = {},
-                std::span<const double> hints = {});
+                const PairEvaluator& evaluate, const Scorer& scorer,
+                const TuneOptions& options = {}, std::span<const double> hints = {});
 
 // The check with the smallest margin in an evaluation (nullptr when there are none).
 const converter::LimitCheck* least_margin(const converter::PairEvaluation& e);

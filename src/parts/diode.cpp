@@ -59,8 +59,7 @@ constexpr std::array<OutlineEntry, 14> outlines{{
 std::string lower(std::string_view s) {
     std::string out;
     out.reserve(s.size());
-    for (char c : s)
-        out.push_back(static_cast<char>(std::tolower(static_cast<unsigned char>(c))));
+    for (char c : s) out.push_back(static_cast<char>(std::tolower(static_cast<unsigned char>(c))));
     return out;
 }
 
@@ -101,8 +100,7 @@ std::optional<DiodeTechnology> technology_from_string(std::string_view s) {
 std::vector<std::string_view> technology_names() {
     std::vector<std::string_view> names;
     names.reserve(technologies.size());
-    for (const auto& e : technologies)
-        names.push_back(e.name);
+    for (const auto& e : technologies) names.push_back(e.name);
     return names;
 }
 

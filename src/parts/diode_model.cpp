@@ -198,16 +198,13 @@ double ln_is_shift(double t, double t_ref, double n, double eg, double xti) {
 double rating_current(const Diode& part) {
     if (part.if_avg > 0.0) return part.if_avg;
     double imax = 0.0;
-    for (const auto& p : part.forward)
-        imax = std::max(imax, p.current);
+    for (const auto& p : part.forward) imax = std::max(imax, p.current);
     return imax > 0.0 ? imax : 1.0;
 }
 
 } // namespace
 
-double thermal_voltage(double temperature) {
-    return k_over_q * temperature;
-}
+double thermal_voltage(double temperature) { return k_over_q * temperature; }
 
 double DiodeModel::saturation_current(double temperature) const {
     // ngspice diotemp.c (TLEV = 0): IS(T) = IS·exp((T/Tnom − 1)·EG/(N·Vt) + XTI/N·ln(T/Tnom)).
@@ -271,15 +268,12 @@ SpiceForward fit_forward(const Diode& part) {
 
     // Cold group: points within 1 K of the lowest temperature; the others fix EG.
     double tc = std::numeric_limits<double>::infinity();
-    for (const auto& p : part.forward)
-        tc = std::min(tc, p.temperature);
+    for (const auto& p : part.forward) tc = std::min(tc, p.temperature);
     std::vector<Point> cold;
     std::vector<ForwardPoint> hot;
     for (const auto& p : part.forward) {
-        if (p.temperature - tc <= 1.0)
-            cold.push_back({p.current, p.vf});
-        else
-            hot.push_back(p);
+        if (p.temperature - tc <= 1.0) cold.push_back({p.current, p.vf});
+        else hot.push_back(p);
     }
     std::sort(cold.begin(), cold.end(), [](const Point& a, const Point& b) { return a.i < b.i; });
     for (std::size_t k = 1; k < cold.size(); ++k) {

@@ -10,18 +10,18 @@ namespace coilsieve::parts {
 double thermal_voltage(double temperature);
 
 struct DiodeModel {
-    SpiceForward fwd;           // at tnom
-    double tnom = 300.15;       // K, ngspice default TNOM 27 °C
+    SpiceForward fwd;     // at tnom
+    double tnom = 300.15; // K, ngspice default TNOM 27 °C
     SpiceCapacitance cap;
-    double tt = 0.0;            // s
-    double qrr_ref = 0.0;       // C at if_ref (0 for Schottky)
-    double if_ref = 0.0;        // A
-    double ir_ref = 0.0;        // A leakage at vr_ref, t_ref
-    double vr_ref = 0.0;        // V
-    double t_ref = 298.15;      // K
+    double tt = 0.0;                // s
+    double qrr_ref = 0.0;           // C at if_ref (0 for Schottky)
+    double if_ref = 0.0;            // A
+    double ir_ref = 0.0;            // A leakage at vr_ref, t_ref
+    double vr_ref = 0.0;            // V
+    double t_ref = 298.15;          // K
     double leakage_doubling = 10.0; // K per doubling (common practice for Schottky)
-    double rth_ja = 0.0;        // K/W
-    double tj_max = 423.15;     // K
+    double rth_ja = 0.0;            // K/W
+    double tj_max = 423.15;         // K
     DiodeTechnology technology = DiodeTechnology::schottky;
 
     // IS at temperature T (ngspice temperature law).

@@ -79,17 +79,13 @@ bool Inductor::is_assumed(std::string_view field) const {
     return std::find(assumed.begin(), assumed.end(), field) != assumed.end();
 }
 
-std::string_view to_string(InductorFamily f) {
-    return entry(f).name;
-}
+std::string_view to_string(InductorFamily f) { return entry(f).name; }
 
 std::string_view to_string(SaturationShape s) {
     return s == SaturationShape::hard ? "hard" : "soft";
 }
 
-std::string_view to_string(Mounting m) {
-    return m == Mounting::smd ? "smd" : "tht";
-}
+std::string_view to_string(Mounting m) { return m == Mounting::smd ? "smd" : "tht"; }
 
 std::optional<InductorFamily> family_from_string(std::string_view s) {
     const std::string n = normalise(s);
@@ -116,13 +112,10 @@ std::optional<Mounting> mounting_from_string(std::string_view s) {
 std::vector<std::string_view> family_names() {
     std::vector<std::string_view> names;
     names.reserve(families.size());
-    for (const auto& e : families)
-        names.push_back(e.name);
+    for (const auto& e : families) names.push_back(e.name);
     return names;
 }
 
-const FamilyDefaults& family_defaults(InductorFamily f) {
-    return entry(f).defaults;
-}
+const FamilyDefaults& family_defaults(InductorFamily f) { return entry(f).defaults; }
 
 } // namespace coilsieve::parts

@@ -33,25 +33,25 @@ struct Steinmetz {
 };
 
 struct Inductor {
-    std::string id;      // unique within its source
-    std::string source;  // name of the source it came from
+    std::string id;     // unique within its source
+    std::string source; // name of the source it came from
     InductorFamily family = InductorFamily::shielded_drum_ferrite;
-    double inductance = 0.0;     // H, nominal, zero bias
-    double tolerance = 0.2;      // fraction: 0.2 = ±20 %
-    double dcr_typ = 0.0;        // Ω at dcr_temperature
-    double dcr_max = 0.0;        // Ω at dcr_temperature
+    double inductance = 0.0;         // H, nominal, zero bias
+    double tolerance = 0.2;          // fraction: 0.2 = ±20 %
+    double dcr_typ = 0.0;            // Ω at dcr_temperature
+    double dcr_max = 0.0;            // Ω at dcr_temperature
     double dcr_temperature = 293.15; // K, temperature at which DCR is stated
-    double isat = 0.0;           // A
-    double sat_drop = 0.3;       // fraction: L(isat) = L0 * (1 - sat_drop)
-    double irms = 0.0;           // A, rated RMS current
-    double irms_rise = 40.0;     // K, temperature rise at irms
-    std::optional<double> srf;   // Hz, self-resonant frequency
+    double isat = 0.0;               // A
+    double sat_drop = 0.3;           // fraction: L(isat) = L0 * (1 - sat_drop)
+    double irms = 0.0;               // A, rated RMS current
+    double irms_rise = 40.0;         // K, temperature rise at irms
+    std::optional<double> srf;       // Hz, self-resonant frequency
     SaturationShape shape = SaturationShape::hard;
-    Steinmetz core;              // core-loss coefficients (family default when assumed)
-    double b_sat = 0.3;          // T, flux density at isat, for the flux-swing estimate
-    double core_volume = 0.0;    // m^3 (family fraction of body volume when assumed)
-    double ac_factor = 1.0;      // R_ac / DCR at 100 kHz for the ripple current
-    double t_max = 398.15;       // K, maximum operating (hot-spot) temperature
+    Steinmetz core;           // core-loss coefficients (family default when assumed)
+    double b_sat = 0.3;       // T, flux density at isat, for the flux-swing estimate
+    double core_volume = 0.0; // m^3 (family fraction of body volume when assumed)
+    double ac_factor = 1.0;   // R_ac / DCR at 100 kHz for the ripple current
+    double t_max = 398.15;    // K, maximum operating (hot-spot) temperature
     Mounting mounting = Mounting::smd;
     double length = 0.0;         // m
     double width = 0.0;          // m
@@ -82,10 +82,10 @@ std::vector<std::string_view> family_names();
 struct FamilyDefaults {
     SaturationShape shape;
     Steinmetz core;
-    double b_sat;                 // T
-    double core_volume_fraction;  // of the body volume
-    double ac_factor;             // R_ac/DCR at 100 kHz
-    double energy_density_min;    // J/m^3 of body volume, ½·L·Isat² / V, band for checks
+    double b_sat;                // T
+    double core_volume_fraction; // of the body volume
+    double ac_factor;            // R_ac/DCR at 100 kHz
+    double energy_density_min;   // J/m^3 of body volume, ½·L·Isat² / V, band for checks
     double energy_density_max;
 };
 const FamilyDefaults& family_defaults(InductorFamily f);

@@ -6,14 +6,14 @@
 namespace coilsieve::parts {
 
 struct InductorModel {
-    double l0 = 0.0;          // H, nominal zero-bias inductance
-    double isat = 0.0;        // A
-    double rolloff_a = 0.0;   // L(i) = l0 / (1 + a * |i/isat|^p), a = drop / (1 - drop)
-    double rolloff_p = 6.0;   // 6 hard (ferrite), 2 soft (powder, metal composite)
-    double dcr_typ = 0.0;     // Ω at dcr_t0
+    double l0 = 0.0;        // H, nominal zero-bias inductance
+    double isat = 0.0;      // A
+    double rolloff_a = 0.0; // L(i) = l0 / (1 + a * |i/isat|^p), a = drop / (1 - drop)
+    double rolloff_p = 6.0; // 6 hard (ferrite), 2 soft (powder, metal composite)
+    double dcr_typ = 0.0;   // Ω at dcr_t0
     double dcr_max = 0.0;
-    double dcr_t0 = 293.15;   // K
-    double ac_factor = 1.0;   // R_ac/DCR at 100 kHz
+    double dcr_t0 = 293.15; // K
+    double ac_factor = 1.0; // R_ac/DCR at 100 kHz
     Steinmetz core;
     double core_ki = 0.0;     // iGSE k_i of `core`, set by make_model (computed on use if 0)
     double b_sat = 0.3;       // T at isat (flux-swing estimate)

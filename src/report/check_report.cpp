@@ -98,14 +98,14 @@ Table loss_table(const converter::PairEvaluation& e) {
     for (const auto& r : e.corners) {
         if (r.status != converter::CornerStatus::ok) continue;
         const auto& p = r.losses;
-        t.add_row({r.name, fmt(p.inductor_copper, Dimension::power),
-                   fmt(p.inductor_core, Dimension::power), fmt(p.diode_conduction, Dimension::power),
-                   fmt(p.diode_switching, Dimension::power), fmt(p.diode_leakage, Dimension::power),
-                   fmt(p.switch_conduction, Dimension::power),
-                   fmt(p.switch_switching, Dimension::power),
-                   fmt(p.sense + p.capacitor, Dimension::power), fmt(p.total, Dimension::power),
-                   fmt(r.efficiency, Dimension::ratio), fmt(r.t_inductor, Dimension::temperature),
-                   fmt(r.tj_diode, Dimension::temperature)});
+        t.add_row(
+            {r.name, fmt(p.inductor_copper, Dimension::power),
+             fmt(p.inductor_core, Dimension::power), fmt(p.diode_conduction, Dimension::power),
+             fmt(p.diode_switching, Dimension::power), fmt(p.diode_leakage, Dimension::power),
+             fmt(p.switch_conduction, Dimension::power), fmt(p.switch_switching, Dimension::power),
+             fmt(p.sense + p.capacitor, Dimension::power), fmt(p.total, Dimension::power),
+             fmt(r.efficiency, Dimension::ratio), fmt(r.t_inductor, Dimension::temperature),
+             fmt(r.tj_diode, Dimension::temperature)});
     }
     return t;
 }
@@ -113,12 +113,12 @@ Table loss_table(const converter::PairEvaluation& e) {
 // Unit of a limit's value, for the table.
 Dimension limit_dimension(const std::string& limit) {
     static const std::map<std::string, Dimension, std::less<>> dims{
-        {"load_ripple", Dimension::ratio},       {"f_sw_min", Dimension::frequency},
-        {"f_sw_max", Dimension::frequency},      {"isat", Dimension::current},
-        {"inductor_rms", Dimension::current},    {"t_inductor", Dimension::temperature},
-        {"vrrm", Dimension::voltage},            {"diode_current", Dimension::current},
-        {"tj_max", Dimension::temperature},      {"efficiency_min", Dimension::ratio},
-        {"height_max", Dimension::length},       {"footprint_max", Dimension::area},
+        {"load_ripple", Dimension::ratio},    {"f_sw_min", Dimension::frequency},
+        {"f_sw_max", Dimension::frequency},   {"isat", Dimension::current},
+        {"inductor_rms", Dimension::current}, {"t_inductor", Dimension::temperature},
+        {"vrrm", Dimension::voltage},         {"diode_current", Dimension::current},
+        {"tj_max", Dimension::temperature},   {"efficiency_min", Dimension::ratio},
+        {"height_max", Dimension::length},    {"footprint_max", Dimension::area},
         {"regulation", Dimension::ratio}};
     const auto it = dims.find(limit);
     return it == dims.end() ? Dimension::dimensionless : it->second;
@@ -130,10 +130,8 @@ Table limits_table(const converter::PairEvaluation& e) {
     for (const auto& k : e.checks) {
         auto it = std::find_if(worst.begin(), worst.end(),
                                [&](const converter::LimitCheck* w) { return w->limit == k.limit; });
-        if (it == worst.end())
-            worst.push_back(&k);
-        else if (k.margin < (*it)->margin)
-            *it = &k;
+        if (it == worst.end()) worst.push_back(&k);
+        else if (k.margin < (*it)->margin) *it = &k;
     }
     Table t({{"limit"},
              {"worst corner"},
@@ -144,9 +142,10 @@ Table limits_table(const converter::PairEvaluation& e) {
     for (const auto* k : worst) {
         const Dimension dim = limit_dimension(k->limit);
         const bool status_row = k->limit == "thermal_runaway" || k->limit == "convergence";
-        const std::string value = k->limit == "regulation" ? fmt(k->value, Dimension::ratio) + " headroom"
-                                  : status_row             ? "-"
-                                                           : fmt(k->value, dim);
+        const std::string value = k->limit == "regulation"
+                                      ? fmt(k->value, Dimension::ratio) + " headroom"
+                                  : status_row ? "-"
+                                               : fmt(k->value, dim);
         const std::string bound = k->limit == "regulation" || status_row ? "-" : fmt(k->bound, dim);
         t.add_row({k->limit, k->corner.empty() ? "(parts)" : k->corner, value, bound,
                    fmt(k->margin, Dimension::ratio), k->margin < 0.0 ? "BROKEN" : "ok"});
@@ -203,11 +202,12 @@ std::string check_text(const CheckReportInput& in) {
                 t.add_row({s.corner, "failed: " + s.error, "", "", "", "", "", ""});
                 continue;
             }
-            const auto a = std::find_if(e.corners.begin(), e.corners.end(),
-                                        [&](const converter::CornerResult& r) { return r.name == s.corner; });
-            const double rel = a != e.corners.end() && a->f_sw > 0.0 ? s.steady.f_sw / a->f_sw - 1.0 : 0.0;
-            t.add_row({s.corner, fmt(s.steady.f_sw, Dimension::frequency),
-                       signed_ratio(rel),
+            const auto a =
+                std::find_if(e.corners.begin(), e.corners.end(),
+                             [&](const converter::CornerResult& r) { return r.name == s.corner; });
+            const double rel =
+                a != e.corners.end() && a->f_sw > 0.0 ? s.steady.f_sw / a->f_sw - 1.0 : 0.0;
+            t.add_row({s.corner, fmt(s.steady.f_sw, Dimension::frequency), signed_ratio(rel),
                        fmt(s.steady.il_avg, Dimension::current),
                        fmt(s.steady.il_peak, Dimension::current),
                        fmt(s.steady.il_ripple_pp, Dimension::current),
@@ -275,8 +275,9 @@ nlohmann::json check_json(const CheckReportInput& in) {
                 x["error"] = s.error;
             } else {
                 x["steady"] = s.steady;
-                x["energy_balance"] = std::isfinite(s.energy_balance) ? nlohmann::json(s.energy_balance)
-                                                                      : nlohmann::json();
+                x["energy_balance"] = std::isfinite(s.energy_balance)
+                                          ? nlohmann::json(s.energy_balance)
+                                          : nlohmann::json();
             }
             sims.push_back(std::move(x));
         }

@@ -27,9 +27,9 @@ struct CheckReportInput {
     const parts::Diode& diode;
     const converter::Setting& setting;
     const converter::PairEvaluation& evaluation;
-    std::vector<std::string> switch_defaults;   // "rise_time = 20 ns (default)", ...
-    std::vector<SimulatedCorner> simulated;     // empty without --simulate
-    std::vector<std::string> notes;             // extra lines ("waveform written to ...")
+    std::vector<std::string> switch_defaults; // "rise_time = 20 ns (default)", ...
+    std::vector<SimulatedCorner> simulated;   // empty without --simulate
+    std::vector<std::string> notes;           // extra lines ("waveform written to ...")
 };
 
 // Tables of operating points, losses and temperatures, the limits with their worst margins,

@@ -61,8 +61,8 @@ std::string rank_footer(const studies::RankResult& r) {
        << " diodes); after screening " << c.pairs_considered << "; tuned " << c.pairs_tuned
        << ", skipped by bounds " << c.pairs_pruned;
     if (c.pairs_probed > 0) os << " (with " << c.pairs_probed << " one-point probes)";
-    os << "; feasible " << c.pairs_feasible
-       << ", infeasible " << c.pairs_infeasible << "; on the Pareto set " << c.pareto << ".\n";
+    os << "; feasible " << c.pairs_feasible << ", infeasible " << c.pairs_infeasible
+       << "; on the Pareto set " << c.pareto << ".\n";
     os << "Screened out: " << c.inductors_screened << " inductors, " << c.diodes_screened
        << " diodes; by limit: " << sorted_counts(c.screened_by_limit) << ".\n";
     if (c.pairs_infeasible > 0)
@@ -73,7 +73,8 @@ std::string rank_footer(const studies::RankResult& r) {
     t.precision(3);
     t << r.elapsed_s;
     os << "Pareto axes: ";
-    for (std::size_t i = 0; i < r.pareto_axes.size(); ++i) os << (i ? ", " : "") << r.pareto_axes[i];
+    for (std::size_t i = 0; i < r.pareto_axes.size(); ++i)
+        os << (i ? ", " : "") << r.pareto_axes[i];
     os << ". Time " << t.str() << " s, " << c.evaluations << " evaluations.\n";
     return os.str();
 }
@@ -95,8 +96,7 @@ std::string no_feasible_text(const studies::RankResult& r) {
            << "broken limits: " << sorted_counts(c.infeasible_by_limit) << ".\n";
         if (c.inductors_screened + c.diodes_screened > 0)
             os << "Screening had removed " << c.inductors_screened << " inductors and "
-               << c.diodes_screened << " diodes (" << sorted_counts(c.screened_by_limit)
-               << ").\n";
+               << c.diodes_screened << " diodes (" << sorted_counts(c.screened_by_limit) << ").\n";
     }
     os << "Relax the limits named above (--limit NAME<=VALUE), widen the control range, or "
           "import parts with higher ratings.\n";
@@ -142,16 +142,26 @@ std::string rank_text(const RankReportInput& in) {
                                   ? p.tune.binding.limit + " (" +
                                         f(p.tune.binding.margin, u::Dimension::ratio, 2) + ")"
                                   : "-";
-        t.add_row({std::to_string(p.rank), l.id, f(l.inductance, u::Dimension::inductance),
-                   f(l.dcr_typ, u::Dimension::resistance), f(l.isat, u::Dimension::current),
-                   dims(l.length, l.width, l.height), d.id,
-                   std::string(parts::to_string(d.technology)), f(d.vrrm, u::Dimension::voltage),
-                   vf, setting, fsw, f(b.objectives.ripple, u::Dimension::ratio),
+        t.add_row({std::to_string(p.rank),
+                   l.id,
+                   f(l.inductance, u::Dimension::inductance),
+                   f(l.dcr_typ, u::Dimension::resistance),
+                   f(l.isat, u::Dimension::current),
+                   dims(l.length, l.width, l.height),
+                   d.id,
+                   std::string(parts::to_string(d.technology)),
+                   f(d.vrrm, u::Dimension::voltage),
+                   vf,
+                   setting,
+                   fsw,
+                   f(b.objectives.ripple, u::Dimension::ratio),
                    f(b.objectives.loss, u::Dimension::power),
                    f(b.objectives.efficiency, u::Dimension::ratio),
                    f(fig.t_hottest, u::Dimension::temperature),
-                   f(b.objectives.margin, u::Dimension::ratio), f(b.objectives.size, u::Dimension::volume),
-                   b.objectives.cost ? price(b.objectives.cost) : "-", p.pareto ? "yes" : "",
+                   f(b.objectives.margin, u::Dimension::ratio),
+                   f(b.objectives.size, u::Dimension::volume),
+                   b.objectives.cost ? price(b.objectives.cost) : "-",
+                   p.pareto ? "yes" : "",
                    binding});
     }
     std::string out = t.render();
@@ -171,10 +181,25 @@ nlohmann::json rank_json(const RankReportInput& in) {
 std::string rank_csv(const RankReportInput& in) {
     const auto& r = in.result;
     const bool band = r.range.variable == optimisation::Variable::band;
-    Table t({{"rank"}, {"inductor_source"}, {"inductor"}, {"diode_source"}, {"diode"},
-             {band ? "band_A" : "frequency_Hz"}, {"loss_W"}, {"efficiency"}, {"ripple"},
-             {"size_m3"}, {"footprint_m2"}, {"margin"}, {"cost"}, {"score"}, {"pareto"},
-             {"f_sw_min_Hz"}, {"f_sw_max_Hz"}, {"t_hottest_K"}, {"binding_limit"}});
+    Table t({{"rank"},
+             {"inductor_source"},
+             {"inductor"},
+             {"diode_source"},
+             {"diode"},
+             {band ? "band_A" : "frequency_Hz"},
+             {"loss_W"},
+             {"efficiency"},
+             {"ripple"},
+             {"size_m3"},
+             {"footprint_m2"},
+             {"margin"},
+             {"cost"},
+             {"score"},
+             {"pareto"},
+             {"f_sw_min_Hz"},
+             {"f_sw_max_Hz"},
+             {"t_hottest_K"},
+             {"binding_limit"}});
     auto num = [](double v) {
         if (!std::isfinite(v)) return std::string();
         std::ostringstream os;

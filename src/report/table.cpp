@@ -60,8 +60,7 @@ bool is_wide(char32_t c) {
 }
 
 void append_cell(std::string& out, std::string_view cell) {
-    for (const char c : cell)
-        out += (c == '\n' || c == '\r' || c == '\t') ? ' ' : c;
+    for (const char c : cell) out += (c == '\n' || c == '\r' || c == '\t') ? ' ' : c;
 }
 
 } // namespace
@@ -94,11 +93,9 @@ void Table::add_row(std::vector<std::string> cells) {
 std::string Table::render() const {
     const std::size_t n = columns_.size();
     std::vector<std::size_t> width(n, 0);
-    for (std::size_t c = 0; c < n; ++c)
-        width[c] = display_width(columns_[c].header);
+    for (std::size_t c = 0; c < n; ++c) width[c] = display_width(columns_[c].header);
     for (const auto& row : rows_) {
-        for (std::size_t c = 0; c < n; ++c)
-            width[c] = std::max(width[c], display_width(row[c]));
+        for (std::size_t c = 0; c < n; ++c) width[c] = std::max(width[c], display_width(row[c]));
     }
 
     std::string out;
@@ -113,8 +110,7 @@ std::string Table::render() const {
             if (columns_[c].align == Align::left) out.append(pad, ' ');
         }
         // No trailing blanks (a left-aligned last column pads them).
-        while (out.size() > start && out.back() == ' ')
-            out.pop_back();
+        while (out.size() > start && out.back() == ' ') out.pop_back();
         out += '\n';
     };
     line([&](std::size_t c) -> std::string_view { return columns_[c].header; });
@@ -129,11 +125,9 @@ std::string Table::render() const {
 std::string Table::to_csv() const {
     std::vector<std::string> header;
     header.reserve(columns_.size());
-    for (const auto& col : columns_)
-        header.push_back(col.header);
+    for (const auto& col : columns_) header.push_back(col.header);
     std::string out = csv_line(header);
-    for (const auto& row : rows_)
-        out += csv_line(row);
+    for (const auto& row : rows_) out += csv_line(row);
     return out;
 }
 

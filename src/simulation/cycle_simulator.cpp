@@ -255,11 +255,9 @@ private:
 
     void stage(Phase ph, const State& y, double hs, const State& k1, State& k2, State& k3,
                State& k4, State& k5, State& k6, State& k7, State& yt, State& yn) const {
-        for (std::size_t j = 0; j < kSize; ++j)
-            yt[j] = y[j] + hs * a21 * k1[j];
+        for (std::size_t j = 0; j < kSize; ++j) yt[j] = y[j] + hs * a21 * k1[j];
         rhs(k_, ph, yt, k2);
-        for (std::size_t j = 0; j < kSize; ++j)
-            yt[j] = y[j] + hs * (a31 * k1[j] + a32 * k2[j]);
+        for (std::size_t j = 0; j < kSize; ++j) yt[j] = y[j] + hs * (a31 * k1[j] + a32 * k2[j]);
         rhs(k_, ph, yt, k3);
         for (std::size_t j = 0; j < kSize; ++j)
             yt[j] = y[j] + hs * (a41 * k1[j] + a42 * k2[j] + a43 * k3[j]);
@@ -451,15 +449,13 @@ bool solve(std::vector<std::vector<double>> a, std::vector<double>& b) {
         std::swap(b[piv], b[col]);
         for (std::size_t r = col + 1; r < n; ++r) {
             const double f = a[r][col] / a[col][col];
-            for (std::size_t cc = col; cc < n; ++cc)
-                a[r][cc] -= f * a[col][cc];
+            for (std::size_t cc = col; cc < n; ++cc) a[r][cc] -= f * a[col][cc];
             b[r] -= f * b[col];
         }
     }
     for (std::size_t r = n; r-- > 0;) {
         double s = b[r];
-        for (std::size_t cc = r + 1; cc < n; ++cc)
-            s -= a[r][cc] * b[cc];
+        for (std::size_t cc = r + 1; cc < n; ++cc) s -= a[r][cc] * b[cc];
         b[r] = s / a[r][r];
     }
     return true;
@@ -493,8 +489,7 @@ struct Shooting {
 
     static double norm(const std::vector<double>& r) {
         double m = 0.0;
-        for (double v : r)
-            m = std::max(m, std::abs(v));
+        for (double v : r) m = std::max(m, std::abs(v));
         return m;
     }
 
@@ -624,8 +619,7 @@ SimulationResult simulate(const Circuit& k, const SimulationOptions& opt,
                 if (pwm && j == n - 1 && zp[j] + dz >= 1.0) dz = -dz;
                 zp[j] += dz;
                 const auto rp = sh.residual(zp, sh.cycle(zp));
-                for (std::size_t row = 0; row < n; ++row)
-                    jac[row][j] = (rp[row] - r[row]) / dz;
+                for (std::size_t row = 0; row < n; ++row) jac[row][j] = (rp[row] - r[row]) / dz;
             }
             std::vector<double> step(r);
             if (!solve(jac, step) || !finite(step)) break;
@@ -634,8 +628,7 @@ SimulationResult simulate(const Circuit& k, const SimulationOptions& opt,
             bool accepted = false;
             for (int b = 0; b < 12; ++b, lambda *= 0.5) {
                 std::vector<double> zn = z;
-                for (std::size_t j = 0; j < n; ++j)
-                    zn[j] -= lambda * step[j];
+                for (std::size_t j = 0; j < n; ++j) zn[j] -= lambda * step[j];
                 sh.clamp(zn);
                 const Cycle cn = sh.cycle(zn);
                 const auto rn = sh.residual(zn, cn);
@@ -690,10 +683,8 @@ SimulationResult simulate(const Circuit& k, const SimulationOptions& opt,
                     } catch (const std::runtime_error&) {
                         z[0] = 0.0;
                     }
-                    if (err > 0.0)
-                        hi = d;
-                    else
-                        lo = d;
+                    if (err > 0.0) hi = d;
+                    else lo = d;
                     if (std::abs(err) < opt.shooting_tol * k.i_target) break;
                 }
                 if (!have) throw std::runtime_error("no duty gives a periodic state");

@@ -16,9 +16,7 @@ std::string num(double v) {
     return buf;
 }
 
-double to_celsius(double kelvin) {
-    return kelvin - 273.15;
-}
+double to_celsius(double kelvin) { return kelvin - 273.15; }
 
 // A series resistance, or a 0 V source when it is zero (SPICE rejects R = 0).
 void series(std::ostream& os, const std::string& name, const std::string& a, const std::string& b,

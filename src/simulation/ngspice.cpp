@@ -20,10 +20,8 @@ namespace {
 std::string quote(const std::string& s) {
     std::string q = "'";
     for (char ch : s) {
-        if (ch == '\'')
-            q += "'\\''";
-        else
-            q += ch;
+        if (ch == '\'') q += "'\\''";
+        else q += ch;
     }
     return q + "'";
 }
@@ -108,8 +106,7 @@ NgspiceRun run_ngspice(const std::string& netlist, const std::string& data_file,
         std::istringstream ls(line);
         std::vector<double> row;
         double v = 0.0;
-        while (ls >> v)
-            row.push_back(v);
+        while (ls >> v) row.push_back(v);
         if (row.empty()) continue;
         if (run.columns.empty()) run.columns.resize(1 + row.size() / 2);
         if (row.size() / 2 + 1 != run.columns.size()) continue;

@@ -7,8 +7,8 @@ namespace coilsieve::studies {
 PairEvaluatorFn default_evaluator() {
     return [](const design::Design& d, const parts::Inductor& l, const parts::Diode& diode) {
         return optimisation::PairEvaluator(
-            [&d, &l, &diode, prepared = converter::prepare_pair(d, l, diode)](
-                const converter::Setting& s) {
+            [&d, &l, &diode,
+             prepared = converter::prepare_pair(d, l, diode)](const converter::Setting& s) {
                 return converter::evaluate_pair(d, l, diode, prepared, s);
             });
     };

@@ -55,10 +55,18 @@ std::vector<double> pareto_vector(const optimisation::Objectives& o,
     std::vector<double> v;
     v.reserve(axes.size());
     for (const auto a : axes) switch (a) {
-        case design::Objective::loss: v.push_back(o.loss); break;
-        case design::Objective::size: v.push_back(o.size); break;
-        case design::Objective::ripple: v.push_back(o.ripple); break;
-        case design::Objective::margin: v.push_back(1.0 - o.margin); break;
+        case design::Objective::loss:
+            v.push_back(o.loss);
+            break;
+        case design::Objective::size:
+            v.push_back(o.size);
+            break;
+        case design::Objective::ripple:
+            v.push_back(o.ripple);
+            break;
+        case design::Objective::margin:
+            v.push_back(1.0 - o.margin);
+            break;
         case design::Objective::cost:
             v.push_back(o.cost ? *o.cost : std::numeric_limits<double>::infinity());
             break;

@@ -133,7 +133,8 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         return std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
     };
     if (!evaluate) throw std::invalid_argument("rank_pairs: no pair evaluator given");
-    if (options.top < 1) throw RankError("--top must be at least 1, got " + std::to_string(options.top));
+    if (options.top < 1)
+        throw RankError("--top must be at least 1, got " + std::to_string(options.top));
     const unsigned threads =
         options.threads > 0 ? options.threads : std::max(1u, std::thread::hardware_concurrency());
 
@@ -142,14 +143,17 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
     res.range = optimisation::setting_range(d);
     const bool hyst = d.control.mode == design::ControlMode::hysteretic;
     if (options.band) {
-        if (!hyst) throw RankError("--band applies to hysteretic control; this design uses PWM "
-                                   "(use --frequency)");
+        if (!hyst)
+            throw RankError("--band applies to hysteretic control; this design uses PWM "
+                            "(use --frequency)");
         res.range = optimisation::fixed_range(optimisation::Variable::band, *options.band);
     }
     if (options.frequency) {
-        if (hyst) throw RankError("--frequency applies to PWM control; this design is hysteretic "
-                                  "(use --band)");
-        res.range = optimisation::fixed_range(optimisation::Variable::frequency, *options.frequency);
+        if (hyst)
+            throw RankError("--frequency applies to PWM control; this design is hysteretic "
+                            "(use --band)");
+        res.range =
+            optimisation::fixed_range(optimisation::Variable::frequency, *options.frequency);
     }
     res.scales = optimisation::make_scales(d);
     const auto axes = pareto_objectives(d);
@@ -273,7 +277,8 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
     }
     CandidateStream stream(lrows, a, dcols, b);
 
-    auto pair_cost = [&](const parts::Inductor& l, const parts::Diode& di) -> std::optional<double> {
+    auto pair_cost = [&](const parts::Inductor& l,
+                         const parts::Diode& di) -> std::optional<double> {
         if (l.price && di.price && l.currency == di.currency) return *l.price + *di.price;
         return std::nullopt;
     };
@@ -295,9 +300,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         if (x.tune.best.score != y.tune.best.score) return x.tune.best.score < y.tune.best.score;
         return pair_before(x, y, inductors, diodes);
     };
-    auto threshold = [&] {
-        return top.size() < n_top ? INFINITY : top.back().tune.best.score;
-    };
+    auto threshold = [&] { return top.size() < n_top ? INFINITY : top.back().tune.best.score; };
     auto dominated_by_front = [&](const std::vector<double>& v) {
         for (const auto& f : front)
             if (dominates(f.v, v)) return true;
@@ -344,8 +347,8 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
                 job.probed = true;
                 if (p.evaluation.feasible && std::isfinite(p.score)) {
                     auto o = job.optimistic;
-                    o.loss = std::max(o.loss, pair_loss_within(ctx, lb, db, scales,
-                                                               p.score - job.cost_term));
+                    o.loss = std::max(
+                        o.loss, pair_loss_within(ctx, lb, db, scales, p.score - job.cost_term));
                     if (dominated_by_front(pareto_vector(o, axes))) {
                         job.skipped = true;
                         return;
@@ -410,9 +413,8 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
             // better, so the N-th score still bounds what can enter.
             auto same = top.end();
             if (options.distinct_inductors)
-                same = std::find_if(top.begin(), top.end(), [&](const PairResult& t) {
-                    return t.inductor == pr.inductor;
-                });
+                same = std::find_if(top.begin(), top.end(),
+                                    [&](const PairResult& t) { return t.inductor == pr.inductor; });
             if (same != top.end()) {
                 if (before(pr, *same)) {
                     top.erase(same);
@@ -480,9 +482,9 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
     // Rows not yet expanded stand for all their remaining pairs with the row's own bound.
     struct Entry {
         double key = 0.0;
-        bool row = false;          // a row remainder: inductor `row_index`, columns from `col`
+        bool row = false; // a row remainder: inductor `row_index`, columns from `col`
         std::size_t row_index = 0, col = 0;
-        std::size_t job = 0;       // index into `jobs` when !row
+        std::size_t job = 0; // index into `jobs` when !row
         bool operator>(const Entry& o) const {
             if (key != o.key) return key > o.key;
             if (row_index != o.row_index) return row_index > o.row_index;

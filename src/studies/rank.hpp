@@ -43,23 +43,23 @@ using PairEvaluatorFn = std::function<optimisation::PairEvaluator(
 PairEvaluatorFn default_evaluator();
 
 struct Progress {
-    std::size_t done = 0;   // pairs tuned or skipped
-    std::size_t total = 0;  // pairs that passed screening
+    std::size_t done = 0;  // pairs tuned or skipped
+    std::size_t total = 0; // pairs that passed screening
     double elapsed_s = 0.0;
 };
 
 struct RankOptions {
     int top = 10;
-    bool exhaustive = false;              // tune every pair that passed screening
-    bool distinct_inductors = false;      // the top N holds each inductor once (its best pair)
-    unsigned threads = 0;                 // 0: all hardware threads
+    bool exhaustive = false;                  // tune every pair that passed screening
+    bool distinct_inductors = false;          // the top N holds each inductor once (its best pair)
+    unsigned threads = 0;                     // 0: all hardware threads
     std::optional<std::string> lock_inductor; // ID or SOURCE:ID
     std::optional<std::string> lock_diode;
-    std::optional<double> band;           // A: fixed band instead of tuning (hysteretic)
-    std::optional<double> frequency;      // Hz: fixed frequency instead of tuning (PWM)
+    std::optional<double> band;      // A: fixed band instead of tuning (hysteretic)
+    std::optional<double> frequency; // Hz: fixed frequency instead of tuning (PWM)
     optimisation::TuneOptions tune;
-    std::size_t batch = 64;               // pairs per parallel batch (fixed: determinism)
-    bool keep_all = false;                // keep every tuned pair in RankResult::all
+    std::size_t batch = 64; // pairs per parallel batch (fixed: determinism)
+    bool keep_all = false;  // keep every tuned pair in RankResult::all
     std::function<void(const Progress&)> progress;
 };
 
@@ -67,9 +67,9 @@ struct PairResult {
     std::size_t inductor = 0; // index into the inductors given to rank_pairs
     std::size_t diode = 0;
     optimisation::TuneResult tune;
-    double bound = 0.0;       // the score's lower bound used for pruning
+    double bound = 0.0; // the score's lower bound used for pruning
     bool pareto = false;
-    int rank = 0;             // 1-based position by score among feasible pairs listed
+    int rank = 0; // 1-based position by score among feasible pairs listed
 };
 
 struct ScreenedPart {
@@ -82,23 +82,23 @@ struct RankCounts {
     std::size_t inductors = 0, diodes = 0;
     std::size_t inductors_screened = 0, diodes_screened = 0;
     std::map<std::string, std::size_t> screened_by_limit; // parts, counted by every reason
-    std::size_t pairs_total = 0;      // inductors x diodes (after locks)
-    std::size_t pairs_considered = 0; // both parts passed screening
-    std::size_t pairs_pruned = 0;     // skipped by bounds (some after one probe evaluation)
-    std::size_t pairs_probed = 0;     // evaluated once at a pre-scan point before tuning
+    std::size_t pairs_total = 0;                          // inductors x diodes (after locks)
+    std::size_t pairs_considered = 0;                     // both parts passed screening
+    std::size_t pairs_pruned = 0; // skipped by bounds (some after one probe evaluation)
+    std::size_t pairs_probed = 0; // evaluated once at a pre-scan point before tuning
     std::size_t pairs_tuned = 0;
     std::size_t pairs_feasible = 0;
     std::size_t pairs_infeasible = 0;
     std::map<std::string, std::size_t> infeasible_by_limit; // by the most broken limit
     std::size_t pareto = 0;
     std::size_t evaluations = 0;
-    std::size_t errors = 0;           // pairs whose evaluation threw (reported as infeasible)
+    std::size_t errors = 0; // pairs whose evaluation threw (reported as infeasible)
 };
 
 struct RankResult {
-    std::vector<PairResult> top;      // best first, ranks 1..N
-    std::vector<PairResult> pareto;   // the whole Pareto set, by score
-    std::vector<PairResult> all;      // every tuned pair, only with keep_all
+    std::vector<PairResult> top;    // best first, ranks 1..N
+    std::vector<PairResult> pareto; // the whole Pareto set, by score
+    std::vector<PairResult> all;    // every tuned pair, only with keep_all
     std::vector<ScreenedPart> screened;
     std::vector<std::size_t> inductors_used; // indices after locks
     std::vector<std::size_t> diodes_used;
@@ -110,7 +110,8 @@ struct RankResult {
 };
 
 // Parts matching an id ("ID" or "SOURCE:ID"); empty when none.
-std::vector<std::size_t> find_inductor(const std::vector<parts::Inductor>& v, const std::string& key);
+std::vector<std::size_t> find_inductor(const std::vector<parts::Inductor>& v,
+                                       const std::string& key);
 std::vector<std::size_t> find_diode(const std::vector<parts::Diode>& v, const std::string& key);
 
 RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor>& inductors,

@@ -44,9 +44,15 @@ nlohmann::json pair_to_json(const PairResult& p, const RankResult& r,
     j["key"] = pair_key(p, inductors, diodes);
     if (p.rank > 0) j["rank"] = p.rank;
     else j["rank"] = nullptr;
-    j["inductor"] = {{"id", l.id},           {"source", l.source},   {"inductance", l.inductance},
-                     {"dcr", l.dcr_typ},     {"isat", l.isat},       {"irms", l.irms},
-                     {"length", l.length},   {"width", l.width},     {"height", l.height},
+    j["inductor"] = {{"id", l.id},
+                     {"source", l.source},
+                     {"inductance", l.inductance},
+                     {"dcr", l.dcr_typ},
+                     {"isat", l.isat},
+                     {"irms", l.irms},
+                     {"length", l.length},
+                     {"width", l.width},
+                     {"height", l.height},
                      {"price", l.price ? nlohmann::json(*l.price) : nlohmann::json(nullptr)}};
     double vf = 0.0;
     if (!d.forward.empty()) vf = d.forward.front().vf;
@@ -61,8 +67,8 @@ nlohmann::json pair_to_json(const PairResult& p, const RankResult& r,
     nlohmann::json setting;
     if (r.range.variable == optimisation::Variable::band) setting["band"] = best.setting.band;
     else setting["frequency"] = best.setting.frequency;
-    setting["capacitance"] =
-        best.setting.capacitance ? nlohmann::json(*best.setting.capacitance) : nlohmann::json(nullptr);
+    setting["capacitance"] = best.setting.capacitance ? nlohmann::json(*best.setting.capacitance)
+                                                      : nlohmann::json(nullptr);
     j["setting"] = setting;
     j["objectives"] = {{"loss", finite_or_null(o.loss)},
                        {"efficiency", finite_or_null(o.efficiency)},
@@ -117,9 +123,11 @@ nlohmann::json results_to_json(const RankResult& r, const std::vector<parts::Ind
                                const std::vector<parts::Diode>& diodes, bool with_corners) {
     nlohmann::json j;
     j["results"] = nlohmann::json::array();
-    for (const auto& p : r.top) j["results"].push_back(pair_to_json(p, r, inductors, diodes, with_corners));
+    for (const auto& p : r.top)
+        j["results"].push_back(pair_to_json(p, r, inductors, diodes, with_corners));
     j["pareto"] = nlohmann::json::array();
-    for (const auto& p : r.pareto) j["pareto"].push_back(pair_to_json(p, r, inductors, diodes, false));
+    for (const auto& p : r.pareto)
+        j["pareto"].push_back(pair_to_json(p, r, inductors, diodes, false));
     j["pareto_axes"] = r.pareto_axes;
     j["counts"] = counts_to_json(r.counts);
     j["elapsed_s"] = r.elapsed_s;

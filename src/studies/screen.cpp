@@ -14,11 +14,11 @@ namespace u = coilsieve::units;
 namespace {
 
 // Allowances that keep every screen a necessary condition (see screen.hpp).
-constexpr double duty_slack = 0.75;      // (1 - D) >= 0.75 (1 - D_ideal): drops the ideal duty ignores
-constexpr double loss_slack = 0.9;       // loss floors are scaled down by this
-constexpr double t_hot = 448.15;         // K (175 °C): no part runs hotter and stays feasible
+constexpr double duty_slack = 0.75; // (1 - D) >= 0.75 (1 - D_ideal): drops the ideal duty ignores
+constexpr double loss_slack = 0.9;  // loss floors are scaled down by this
+constexpr double t_hot = 448.15;    // K (175 °C): no part runs hotter and stays feasible
 constexpr double dcr_hot_factor = 1.0 + 0.00393 * (t_hot - 293.15); // IEC 60028 copper
-constexpr double diode_drop_max = 3.0;   // V, a generous ceiling on a diode's forward drop
+constexpr double diode_drop_max = 3.0; // V, a generous ceiling on a diode's forward drop
 
 std::string fmt(double v, u::Dimension d) { return u::format(v, d); }
 
@@ -27,9 +27,7 @@ bool hysteretic(const ScreenContext& c) {
 }
 
 // The band at a corner: a fractional band follows the corner's current (converter::corner_setting).
-double band_scale(const ScreenContext& c, const EnvelopeCorner& k) {
-    return band_at(c, k, 1.0);
-}
+double band_scale(const ScreenContext& c, const EnvelopeCorner& k) { return band_at(c, k, 1.0); }
 double band_lo(const ScreenContext& c) { return hysteretic(c) ? c.range.lo : 0.0; }
 double band_hi(const ScreenContext& c) { return hysteretic(c) ? c.range.hi : 0.0; }
 double band_lo(const ScreenContext& c, const EnvelopeCorner& k) {
@@ -89,8 +87,8 @@ ScreenContext make_screen_context(const design::Design& d, const optimisation::S
     c.design = &d;
     c.range = r;
     for (const auto& k : converter::make_corners(d, 0.0)) {
-        EnvelopeCorner e{k.name,    k.vin,   k.point.v0, k.point.r, k.point.current,
-                         k.ambient, 1.0,     k.dcr_max,  k.nominal, k.weight};
+        EnvelopeCorner e{k.name,    k.vin, k.point.v0, k.point.r, k.point.current,
+                         k.ambient, 1.0,   k.dcr_max,  k.nominal, k.weight};
         c.vin_max = std::max(c.vin_max, e.vin);
         c.i_max = std::max(c.i_max, e.current);
         c.corners.push_back(std::move(e));
@@ -109,8 +107,8 @@ ScreenContext make_screen_context(const design::Design& d, const optimisation::S
         const double i = current_slack * k.current;
         const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
         const double t_sw = k.ambient + converter::switch_temperature_rise;
-        const double ron = std::max(0.0, d.sw.on_resistance * (1.0 + d.sw.on_resistance_tempco *
-                                                                         (t_sw - 298.15)));
+        const double ron =
+            std::max(0.0, d.sw.on_resistance * (1.0 + d.sw.on_resistance_tempco * (t_sw - 298.15)));
         floor += w * i * i * (std::max(0.0, d.sense_resistor) + duty * ron);
         w_sum += w;
     }
@@ -249,7 +247,8 @@ std::vector<ScreenReason> screen_diode(const ScreenContext& c, const parts::Diod
             if (tj > tj_bound) {
                 out.push_back({"tj_max", k.name, tj, tj_bound,
                                "junction at least " + fmt(tj, u::Dimension::temperature) +
-                                   " at corner \"" + k.name + "\" (conduction and reverse "
+                                   " at corner \"" + k.name +
+                                   "\" (conduction and reverse "
                                    "leakage alone), above the limit " +
                                    fmt(tj_bound, u::Dimension::temperature)});
                 break;

@@ -30,14 +30,14 @@ struct ScreenReason {
 struct EnvelopeCorner {
     std::string name;
     double vin = 0.0;
-    double v0 = 0.0;       // load EMF / knee
-    double r = 0.0;        // load series resistance
-    double current = 0.0;  // target average current
-    double ambient = 0.0;  // K
-    double l_scale = 1.0;  // the corner's inductance tolerance factor
-    bool dcr_max = false;  // the corner takes the maximum DCR
-    bool nominal = false;  // the loss objective is taken here
-    double weight = 0.0;   // its share of the loss objective (charge profile time)
+    double v0 = 0.0;      // load EMF / knee
+    double r = 0.0;       // load series resistance
+    double current = 0.0; // target average current
+    double ambient = 0.0; // K
+    double l_scale = 1.0; // the corner's inductance tolerance factor
+    bool dcr_max = false; // the corner takes the maximum DCR
+    bool nominal = false; // the loss objective is taken here
+    double weight = 0.0;  // its share of the loss objective (charge profile time)
 };
 
 struct ScreenContext {
@@ -45,12 +45,12 @@ struct ScreenContext {
     optimisation::SettingRange range;
     std::vector<EnvelopeCorner> corners;
     double vin_max = 0.0;
-    double i_max = 0.0;        // largest target current over corners
-    double target = 0.0;       // the design's target current (a band given as a fraction scales
-                               // with each corner's current, as converter::corner_setting does)
-    double ron_hot = 0.0;      // switch on-resistance at 175 °C junction (upper bound)
-    double loss_floor = 0.0;   // W: sense-resistor and switch conduction loss no pair avoids,
-                               // at the nominal corner(s) as the loss objective weighs them
+    double i_max = 0.0;      // largest target current over corners
+    double target = 0.0;     // the design's target current (a band given as a fraction scales
+                             // with each corner's current, as converter::corner_setting does)
+    double ron_hot = 0.0;    // switch on-resistance at 175 °C junction (upper bound)
+    double loss_floor = 0.0; // W: sense-resistor and switch conduction loss no pair avoids,
+                             // at the nominal corner(s) as the loss objective weighs them
 };
 
 // The average current of a feasible pair is at least this share of its target (regulation error

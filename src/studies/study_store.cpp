@@ -52,7 +52,8 @@ std::int64_t StudyStore::save(Study& s) {
         if (check.column_int(0) > 0)
             throw StudyError("a study named \"" + s.name +
                              "\" exists already; choose another --study name or delete it with "
-                             "`coilsieve study delete " + s.name + "`");
+                             "`coilsieve study delete " +
+                             s.name + "`");
     }
     auto st = db_.prepare("INSERT INTO study (name, parent_id, created, design_json, options_json, "
                           "catalog_fingerprint, results_json) VALUES (?, ?, ?, ?, ?, ?, ?)");
@@ -91,10 +92,10 @@ Study StudyStore::get(std::string_view name) {
     auto st = db_.prepare("SELECT name FROM study ORDER BY id DESC LIMIT 10");
     while (st.step()) known += (known.empty() ? "" : ", ") + st.column_text(0);
     throw StudyError("no study named \"" + std::string(name) + "\"" +
-                     (known.empty() ? std::string("; none is saved yet (every `coilsieve rank` run "
-                                                  "saves one)")
-                                    : "; recent studies: " + known +
-                                          " (`coilsieve study list` shows all)"));
+                     (known.empty()
+                          ? std::string("; none is saved yet (every `coilsieve rank` run "
+                                        "saves one)")
+                          : "; recent studies: " + known + " (`coilsieve study list` shows all)"));
 }
 
 void StudyStore::remove(std::string_view name) {
@@ -264,13 +265,15 @@ std::string diff_text(const StudyDiff& d) {
 nlohmann::json diff_json(const StudyDiff& d) {
     auto changes = [](const std::vector<InputChange>& v) {
         nlohmann::json j = nlohmann::json::array();
-        for (const auto& c : v) j.push_back({{"path", c.path}, {"before", c.before}, {"after", c.after}});
+        for (const auto& c : v)
+            j.push_back({{"path", c.path}, {"before", c.before}, {"after", c.after}});
         return j;
     };
     nlohmann::json common = nlohmann::json::array();
     for (const auto& c : d.common) {
         nlohmann::json ch = nlohmann::json::object();
-        for (const auto& o : c.changes) ch[o.objective] = {{"before", o.before}, {"after", o.after}};
+        for (const auto& o : c.changes)
+            ch[o.objective] = {{"before", o.before}, {"after", o.after}};
         common.push_back({{"key", c.key},
                           {"rank_before", c.rank_before ? nlohmann::json(*c.rank_before) : nullptr},
                           {"rank_after", c.rank_after ? nlohmann::json(*c.rank_after) : nullptr},

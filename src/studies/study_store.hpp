@@ -4,9 +4,8 @@
 
 #include "catalog/sqlite.hpp"
 
-#include <nlohmann/json.hpp>
-
 #include <cstdint>
+#include <nlohmann/json.hpp>
 #include <optional>
 #include <stdexcept>
 #include <string>
@@ -24,12 +23,12 @@ struct Study {
     std::int64_t id = 0;
     std::string name;
     std::optional<std::int64_t> parent_id;
-    std::string parent_name;   // filled when read back ("" if none or deleted)
-    std::string created;       // UTC, ISO 8601
-    nlohmann::json design;     // design_json::to_json of the effective design
-    nlohmann::json options;    // locks, top N, sources, exhaustive, fixed setting, ...
-    std::string fingerprint;   // catalog fingerprint of the sources used
-    nlohmann::json results;    // results_to_json without corners
+    std::string parent_name; // filled when read back ("" if none or deleted)
+    std::string created;     // UTC, ISO 8601
+    nlohmann::json design;   // design_json::to_json of the effective design
+    nlohmann::json options;  // locks, top N, sources, exhaustive, fixed setting, ...
+    std::string fingerprint; // catalog fingerprint of the sources used
+    nlohmann::json results;  // results_to_json without corners
 };
 
 class StudyStore {
@@ -38,10 +37,10 @@ public:
 
     // Inserts in one transaction; sets s.id. Throws StudyError if the name is taken.
     std::int64_t save(Study& s);
-    std::vector<Study> list();              // by id (creation order)
+    std::vector<Study> list(); // by id (creation order)
     std::optional<Study> find(std::string_view name);
-    Study get(std::string_view name);       // throws StudyError naming the known studies
-    void remove(std::string_view name);     // throws StudyError if unknown
+    Study get(std::string_view name);   // throws StudyError naming the known studies
+    void remove(std::string_view name); // throws StudyError if unknown
     // "<design>-<YYYYMMDD-HHMMSS>-<n>" with the smallest n not taken yet.
     std::string generate_name(std::string_view design_name, std::string_view created);
 
@@ -61,15 +60,15 @@ struct PairChange {
     std::vector<ObjectiveChange> changes;
 };
 struct InputChange {
-    std::string path;     // "limits.load_ripple", "options.top", ...
-    std::string before;   // JSON text ("absent" when missing)
+    std::string path;   // "limits.load_ripple", "options.top", ...
+    std::string before; // JSON text ("absent" when missing)
     std::string after;
 };
 struct StudyDiff {
     std::string a, b;
     std::vector<std::string> entered_top, left_top;
     std::vector<std::string> entered_pareto, left_pareto;
-    std::vector<PairChange> common;      // pairs in both top lists
+    std::vector<PairChange> common; // pairs in both top lists
     std::vector<InputChange> design_changes;
     std::vector<InputChange> option_changes;
     bool catalog_changed = false;

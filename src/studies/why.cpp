@@ -24,7 +24,8 @@ std::string objective_line(const optimisation::Objectives& o) {
 }
 
 // Where `better` beats `worse`, in words.
-std::string advantages(const optimisation::Objectives& better, const optimisation::Objectives& worse) {
+std::string advantages(const optimisation::Objectives& better,
+                       const optimisation::Objectives& worse) {
     std::vector<std::string> v;
     if (better.loss < worse.loss)
         v.push_back("lower loss (" + u::format(better.loss, u::Dimension::power) + " vs " +
@@ -38,8 +39,7 @@ std::string advantages(const optimisation::Objectives& better, const optimisatio
     if (better.margin > worse.margin)
         v.push_back("more Isat margin (" + u::format(better.margin, u::Dimension::ratio) + " vs " +
                     u::format(worse.margin, u::Dimension::ratio) + ")");
-    if (better.cost && worse.cost && *better.cost < *worse.cost)
-        v.push_back("cheaper");
+    if (better.cost && worse.cost && *better.cost < *worse.cost) v.push_back("cheaper");
     std::string s;
     for (std::size_t i = 0; i < v.size(); ++i) s += (i ? ", " : "") + v[i];
     return s.empty() ? "a lower weighted score" : s;
@@ -74,8 +74,11 @@ WhyReport explain_part(const design::Design& d, const std::vector<parts::Inducto
             for (const auto& r : s.reasons) {
                 os << "  " << r.limit << (r.corner.empty() ? "" : " at corner " + r.corner) << ": "
                    << r.message << "\n";
-                reasons.push_back({{"limit", r.limit}, {"corner", r.corner}, {"value", r.value},
-                                   {"bound", r.bound}, {"message", r.message}});
+                reasons.push_back({{"limit", r.limit},
+                                   {"corner", r.corner},
+                                   {"value", r.value},
+                                   {"bound", r.bound},
+                                   {"message", r.message}});
             }
             w.json["verdict"] = w.verdict;
             w.json["reasons"] = reasons;
@@ -158,8 +161,8 @@ WhyReport explain_part(const design::Design& d, const std::vector<parts::Inducto
     } else {
         w.verdict = on_front ? "pareto-only" : "outranked";
         os << kind << " " << full << " is feasible with " << feasible << " of " << row.all.size()
-           << " partners; its best pair " << best_key << " scores " << best->tune.best.score
-           << " (" << objective_line(bo) << ").\n";
+           << " partners; its best pair " << best_key << " scores " << best->tune.best.score << " ("
+           << objective_line(bo) << ").\n";
         if (!main.top.empty()) {
             const auto& last = main.top.back();
             os << "  Outranked: the last listed pair, rank " << last.rank << " "

@@ -11,8 +11,8 @@
 namespace coilsieve::studies {
 
 struct WhyReport {
-    std::string verdict;  // "screened", "infeasible", "outranked", "listed", "pareto-only"
-    std::string text;     // plain sentences, one per line
+    std::string verdict; // "screened", "infeasible", "outranked", "listed", "pareto-only"
+    std::string text;    // plain sentences, one per line
     nlohmann::json json;
 };
 

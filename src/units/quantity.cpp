@@ -185,9 +185,7 @@ struct Resolved {
     double offset = 0.0;
 };
 
-bool is_digit(char c) {
-    return c >= '0' && c <= '9';
-}
+bool is_digit(char c) { return c >= '0' && c <= '9'; }
 
 // Bytes of a space character at s[i] (ASCII blank, NBSP, thin or narrow no-break space), or 0.
 std::size_t space_len(std::string_view s, std::size_t i) {
@@ -440,8 +438,7 @@ double parse_impl(std::string_view text, Dimension expected, const DimInfo& di,
         // "2m3" is 2 m³, not a code, for a dimension whose units start with a prefix letter.
         const auto unit_here = [&] {
             std::size_t e = i;
-            while (e < n && space_len(s, e) == 0)
-                ++e;
+            while (e < n && space_len(s, e) == 0) ++e;
             return !di.prefix_code && resolve_unit(s.substr(i, e - i), di, false).has_value();
         };
         if (len > 0 && i + len < n && is_digit(s[i + len]) && !unit_here()) {
@@ -482,8 +479,7 @@ double parse_impl(std::string_view text, Dimension expected, const DimInfo& di,
     // The unit: one token after optional spaces, then only spaces.
     i = skip_spaces(s, i);
     const std::size_t tok_begin = i;
-    while (i < n && space_len(s, i) == 0)
-        ++i;
+    while (i < n && space_len(s, i) == 0) ++i;
     const std::string_view tok = s.substr(tok_begin, i - tok_begin);
     const std::size_t after = skip_spaces(s, i);
     const auto numeric_start = [](std::string_view t) {
@@ -641,9 +637,7 @@ std::string_view prefix_symbol(int e3, bool ascii) {
     }
 }
 
-int floor_div3(int e) {
-    return (e >= 0 ? e / 3 : -((-e + 2) / 3)) * 3;
-}
+int floor_div3(int e) { return (e >= 0 ? e / 3 : -((-e + 2) / 3)) * 3; }
 
 double pow10_exact(int e) {
     // Powers of ten up to 1e22 are exact doubles.
@@ -657,9 +651,7 @@ double pow10_exact(int e) {
 
 } // namespace
 
-std::string_view dimension_name(Dimension d) {
-    return info(d).name;
-}
+std::string_view dimension_name(Dimension d) { return info(d).name; }
 
 std::string_view unit_symbol(Dimension d, bool ascii) {
     const DimInfo& di = info(d);

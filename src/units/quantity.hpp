@@ -11,27 +11,27 @@ namespace coilsieve::units {
 
 // What a field holds; decides which unit symbols are accepted and how a value prints.
 enum class Dimension {
-    dimensionless,        // plain number, no unit allowed (except none)
-    ratio,                // "20%" -> 0.2, "0.2" -> 0.2
-    inductance,           // H
-    resistance,           // Ω, ohm, R (IEC 60062 "4R7")
-    current,              // A
-    voltage,              // V
-    capacitance,          // F
-    frequency,            // Hz
-    power,                // W
-    time,                 // s
-    temperature,          // absolute: "55C", "55 °C", "328.15K"; bare numbers are °C
+    dimensionless,          // plain number, no unit allowed (except none)
+    ratio,                  // "20%" -> 0.2, "0.2" -> 0.2
+    inductance,             // H
+    resistance,             // Ω, ohm, R (IEC 60062 "4R7")
+    current,                // A
+    voltage,                // V
+    capacitance,            // F
+    frequency,              // Hz
+    power,                  // W
+    time,                   // s
+    temperature,            // absolute: "55C", "55 °C", "328.15K"; bare numbers are °C
     temperature_difference, // K (or °C as a difference)
-    length,               // m, mm
-    area,                 // m², mm²
-    volume,               // m³, mm³
-    charge,               // C (coulomb): gate charge, Qrr, battery charge
-    energy,               // J
-    thermal_resistance,   // K/W
-    mass,                 // g, kg
-    battery_capacity,     // Ah, mAh -> stored in coulomb
-    voltage_per_kelvin,   // V/K, mV/K
+    length,                 // m, mm
+    area,                   // m², mm²
+    volume,                 // m³, mm³
+    charge,                 // C (coulomb): gate charge, Qrr, battery charge
+    energy,                 // J
+    thermal_resistance,     // K/W
+    mass,                   // g, kg
+    battery_capacity,       // Ah, mAh -> stored in coulomb
+    voltage_per_kelvin,     // V/K, mV/K
 };
 
 // Name of a dimension for messages ("inductance").
@@ -39,7 +39,8 @@ std::string_view dimension_name(Dimension d);
 // The SI unit symbol printed for a dimension ("H", "Ω", "°C").
 std::string_view unit_symbol(Dimension d, bool ascii = false);
 
-// Thrown for text that is not a valid quantity; what() quotes the input and says what would be right.
+// Thrown for text that is not a valid quantity; what() quotes the input and says what would be
+// right.
 class ParseError : public std::runtime_error {
 public:
     using std::runtime_error::runtime_error;
@@ -59,9 +60,9 @@ double parse(std::string_view text, Dimension expected);
 double parse(std::string_view text, Dimension expected, std::string_view default_unit);
 
 struct FormatOptions {
-    int significant = 3;  // significant digits
-    bool ascii = false;   // "uH", "mOhm", "degC" instead of "µH", "mΩ", "°C"
-    bool unit = true;     // append the unit
+    int significant = 3; // significant digits
+    bool ascii = false;  // "uH", "mOhm", "degC" instead of "µH", "mΩ", "°C"
+    bool unit = true;    // append the unit
 };
 
 // Engineering notation: 4.7e-6 H -> "4.70 µH", 0.035 Ω -> "35.0 mΩ", 1.2 A -> "1.20 A",

@@ -35,8 +35,7 @@ std::string generated_csv() {
 fs::path temp_db(const char* name) {
     const fs::path p = fs::temp_directory_path() /
                        ("coilsieve-bench-" + std::to_string(::getpid()) + "-" + name + ".db");
-    for (const char* suffix : {"", "-wal", "-shm"})
-        fs::remove(p.string() + suffix);
+    for (const char* suffix : {"", "-wal", "-shm"}) fs::remove(p.string() + suffix);
     return p;
 }
 
@@ -57,8 +56,7 @@ void BM_Import100k(benchmark::State& state) {
             if (s.accepted != rows) state.SkipWithError("not every generated row was accepted");
         }
         state.PauseTiming();
-        for (const char* suffix : {"", "-wal", "-shm"})
-            fs::remove(path.string() + suffix);
+        for (const char* suffix : {"", "-wal", "-shm"}) fs::remove(path.string() + suffix);
         state.ResumeTiming();
     }
     state.counters["rows"] = rows;
@@ -87,8 +85,7 @@ void BM_RangeQuery(benchmark::State& state) {
         benchmark::DoNotOptimize(parts.data());
     }
     state.counters["matches"] = static_cast<double>(found);
-    for (const char* suffix : {"", "-wal", "-shm"})
-        fs::remove(path.string() + suffix);
+    for (const char* suffix : {"", "-wal", "-shm"}) fs::remove(path.string() + suffix);
 }
 BENCHMARK(BM_RangeQuery)->Unit(benchmark::kMillisecond);
 

@@ -6,14 +6,13 @@
 #include "studies/rank.hpp"
 
 #include <benchmark/benchmark.h>
-#include <sys/resource.h>
-
 #include <chrono>
 #include <cmath>
 #include <fstream>
 #include <iostream>
 #include <random>
 #include <sstream>
+#include <sys/resource.h>
 
 using namespace coilsieve;
 
@@ -104,8 +103,9 @@ void ratio(benchmark::State& state, const std::string& file) {
     double t_pruned = 0.0, t_full = 0.0;
     for (auto _ : state) {
         studies::RankOptions o;
-        t_pruned = studies::rank_pairs(d, cat.inductors, cat.diodes, o, studies::default_evaluator())
-                       .elapsed_s;
+        t_pruned =
+            studies::rank_pairs(d, cat.inductors, cat.diodes, o, studies::default_evaluator())
+                .elapsed_s;
         o.exhaustive = true;
         t_full = studies::rank_pairs(d, cat.inductors, cat.diodes, o, studies::default_evaluator())
                      .elapsed_s;
@@ -119,16 +119,28 @@ void ratio(benchmark::State& state, const std::string& file) {
 } // namespace
 
 BENCHMARK_CAPTURE(rank_example, lamp_starter, "reading-lamp.json", false, false)
-    ->Iterations(1)->Unit(benchmark::kSecond)->UseRealTime();
+    ->Iterations(1)
+    ->Unit(benchmark::kSecond)
+    ->UseRealTime();
 BENCHMARK_CAPTURE(rank_example, charger_starter, "two-cell-charger.json", false, false)
-    ->Iterations(1)->Unit(benchmark::kSecond)->UseRealTime();
+    ->Iterations(1)
+    ->Unit(benchmark::kSecond)
+    ->UseRealTime();
 BENCHMARK_CAPTURE(rank_example, lamp_generated_20000x3000, "reading-lamp.json", true, false)
-    ->Iterations(1)->Unit(benchmark::kSecond)->UseRealTime();
+    ->Iterations(1)
+    ->Unit(benchmark::kSecond)
+    ->UseRealTime();
 BENCHMARK_CAPTURE(rank_example, charger_generated_20000x3000, "two-cell-charger.json", true, false)
-    ->Iterations(1)->Unit(benchmark::kSecond)->UseRealTime();
+    ->Iterations(1)
+    ->Unit(benchmark::kSecond)
+    ->UseRealTime();
 BENCHMARK_CAPTURE(ratio, lamp_exhaustive_over_pruned, "reading-lamp.json")
-    ->Iterations(1)->Unit(benchmark::kSecond)->UseRealTime();
+    ->Iterations(1)
+    ->Unit(benchmark::kSecond)
+    ->UseRealTime();
 BENCHMARK_CAPTURE(ratio, charger_exhaustive_over_pruned, "two-cell-charger.json")
-    ->Iterations(1)->Unit(benchmark::kSecond)->UseRealTime();
+    ->Iterations(1)
+    ->Unit(benchmark::kSecond)
+    ->UseRealTime();
 
 BENCHMARK_MAIN();

@@ -21,8 +21,7 @@ ImportResult diodes(std::string_view text) {
 
 std::string all_problems(const ImportResult& r) {
     std::string s;
-    for (const auto& p : r.problems)
-        s += p.to_string() + "\n";
+    for (const auto& p : r.problems) s += p.to_string() + "\n";
     return s;
 }
 
@@ -66,8 +65,7 @@ TEST(Fields, EveryRequiredFieldOfColumnsMdIsRequired) {
         EXPECT_TRUE(fields(PartKind::diode)[*field_index(PartKind::diode, n)].required) << n;
     }
     int required = 0;
-    for (const auto& f : fields(PartKind::inductor))
-        required += f.required;
+    for (const auto& f : fields(PartKind::inductor)) required += f.required;
     EXPECT_EQ(required, 4);
 }
 
@@ -224,8 +222,7 @@ TEST(Import, UnknownColumnsAreIgnoredAndListed) {
 
 TEST(Import, ProblemsAreCapped) {
     std::string text = "id,inductance,dcr_typ,isat\n";
-    for (int i = 0; i < 500; ++i)
-        text.append("P").append(std::to_string(i)).append(",-1,50m,2\n");
+    for (int i = 0; i < 500; ++i) text.append("P").append(std::to_string(i)).append(",-1,50m,2\n");
     const auto r = inductors(text);
     EXPECT_EQ(r.problems.size(), max_problems + 1);
     EXPECT_TRUE(contains(r.problems.back().reason, "300 more problems"))
@@ -304,8 +301,7 @@ TEST(Import, InvalidJsonIsFatalWithLine) {
 }
 
 namespace {
-template <class Part>
-void expect_same(const std::vector<Part>& a, const std::vector<Part>& b) {
+template <class Part> void expect_same(const std::vector<Part>& a, const std::vector<Part>& b) {
     ASSERT_EQ(a.size(), b.size());
     for (std::size_t i = 0; i < a.size(); ++i) {
         const Record ra = to_record(a[i]), rb = to_record(b[i]);

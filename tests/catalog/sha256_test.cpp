@@ -23,8 +23,7 @@ TEST(Sha256, FipsTwoBlockMessage) {
 
 TEST(Sha256, IncrementalEqualsOneShot) {
     std::string text(1000, 'x');
-    for (std::size_t i = 0; i < text.size(); ++i)
-        text[i] = static_cast<char>('a' + i % 26);
+    for (std::size_t i = 0; i < text.size(); ++i) text[i] = static_cast<char>('a' + i % 26);
     Sha256 h;
     h.update(text.substr(0, 63));
     h.update(text.substr(63, 1));

@@ -42,12 +42,8 @@ const cc::ImportResult& starter(cc::PartKind kind) {
                        cc::PartKind::diode, "starter");
     return kind == cc::PartKind::inductor ? inductors : diodes;
 }
-const std::vector<cp::Inductor>& inductors() {
-    return starter(cc::PartKind::inductor).inductors;
-}
-const std::vector<cp::Diode>& diodes() {
-    return starter(cc::PartKind::diode).diodes;
-}
+const std::vector<cp::Inductor>& inductors() { return starter(cc::PartKind::inductor).inductors; }
+const std::vector<cp::Diode>& diodes() { return starter(cc::PartKind::diode).diodes; }
 
 // IEC 60063 E12 series, hard-coded from the standard (domain notes).
 constexpr double e12[] = {1.0, 1.2, 1.5, 1.8, 2.2, 2.7, 3.3, 3.9, 4.7, 5.6, 6.8, 8.2};
@@ -59,12 +55,8 @@ bool on_e12(double value) {
                        [&](double m) { return std::abs(mantissa / m - 1.0) < 1e-6; });
 }
 
-double celsius(double c) {
-    return c + 273.15;
-}
-bool near_rel(double a, double b, double rel) {
-    return std::abs(a - b) <= rel * std::abs(b);
-}
+double celsius(double c) { return c + 273.15; }
+bool near_rel(double a, double b, double rel) { return std::abs(a - b) <= rel * std::abs(b); }
 
 // Relative spread (max/min - 1) of positive values.
 double spread(const std::vector<double>& v) {
@@ -73,9 +65,7 @@ double spread(const std::vector<double>& v) {
 }
 
 using SizeKey = std::tuple<cp::InductorFamily, double, double, double>;
-SizeKey size_key(const cp::Inductor& p) {
-    return {p.family, p.length, p.width, p.height};
-}
+SizeKey size_key(const cp::Inductor& p) { return {p.family, p.length, p.width, p.height}; }
 
 // The generator's laws, restated here (tools/gen_starter_catalog.py, module docstring).
 constexpr double rho_cu_20 = 1.7241e-8; // Ω·m, IEC 60028 annealed copper at 20 °C (domain notes)
@@ -345,8 +335,7 @@ TEST(StarterInductors, PriceRisesWithBodySize) {
     }
     for (auto& [key, v] : groups) {
         std::sort(v.begin(), v.end());
-        for (std::size_t i = 1; i < v.size(); ++i)
-            EXPECT_GE(v[i].second, v[i - 1].second);
+        for (std::size_t i = 1; i < v.size(); ++i) EXPECT_GE(v[i].second, v[i - 1].second);
     }
 }
 
@@ -555,10 +544,8 @@ TEST(StarterDiodes, LeakageAndCapacitanceScaleWithDieArea) {
         ir_per_a[{d.technology, d.vrrm}].push_back(*d.ir / d.if_avg);
         if (d.cj) cj_per_a[{d.technology, d.vrrm}].push_back(*d.cj / d.if_avg);
     }
-    for (const auto& [key, v] : ir_per_a)
-        EXPECT_LT(spread(v), 2e-3) << key.second << " V";
-    for (const auto& [key, v] : cj_per_a)
-        EXPECT_LT(spread(v), 2e-3) << key.second << " V";
+    for (const auto& [key, v] : ir_per_a) EXPECT_LT(spread(v), 2e-3) << key.second << " V";
+    for (const auto& [key, v] : cj_per_a) EXPECT_LT(spread(v), 2e-3) << key.second << " V";
 }
 
 TEST(StarterDiodes, SchottkyLeakageIsLargerAndRisesWithLowerBarrier) {

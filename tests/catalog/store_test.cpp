@@ -56,8 +56,7 @@ std::string dump(sqlite::Database& db) {
         sqlite::Statement st(db, std::string("SELECT * FROM ") + table + " ORDER BY 1");
         out += std::string("# ") + table + "\n";
         while (st.step()) {
-            for (int c = 0; c < st.column_count(); ++c)
-                out += st.column_text(c) + "|";
+            for (int c = 0; c < st.column_count(); ++c) out += st.column_text(c) + "|";
             out += "\n";
         }
     }
@@ -66,14 +65,11 @@ std::string dump(sqlite::Database& db) {
 
 std::vector<std::string> ids(const std::vector<parts::Inductor>& ps) {
     std::vector<std::string> out;
-    for (const auto& p : ps)
-        out.push_back(p.id);
+    for (const auto& p : ps) out.push_back(p.id);
     return out;
 }
 
-OpenOptions no_seed() {
-    return OpenOptions{.load_starter = false};
-}
+OpenOptions no_seed() { return OpenOptions{.load_starter = false}; }
 
 } // namespace
 
@@ -95,8 +91,7 @@ TEST(Store, DatabaseColumnsAreTheFieldTable) {
         std::vector<std::string> columns;
         sqlite::Statement st(s.database(), std::string("PRAGMA table_info(") +
                                                std::string(to_string(kind)) + ")");
-        while (st.step())
-            columns.push_back(st.column_text(1));
+        while (st.step()) columns.push_back(st.column_text(1));
         for (const Field& f : fields(kind)) {
             EXPECT_NE(std::find(columns.begin(), columns.end(), f.name), columns.end()) << f.name;
         }
@@ -255,16 +250,13 @@ TEST(Store, ConcurrentImportsFromTwoConnections) {
         try {
             Store s(path, no_seed());
             std::string text = "id,inductance,dcr_typ,isat\n";
-            for (int i = 0; i < 2000; ++i)
-                text += source + std::to_string(i) + ",10u,50m,2\n";
+            for (int i = 0; i < 2000; ++i) text += source + std::to_string(i) + ",10u,50m,2\n";
             for (int round = 0; round < 5; ++round)
                 s.import(request(PartKind::inductor, source, text));
             ++ok;
         } catch (const sqlite::SqliteError& e) {
-            if (e.busy())
-                ++busy;
-            else
-                ++other;
+            if (e.busy()) ++busy;
+            else ++other;
         } catch (...) {
             ++other;
         }
@@ -278,8 +270,7 @@ TEST(Store, ConcurrentImportsFromTwoConnections) {
     sqlite::Statement check(s.database(), "PRAGMA integrity_check");
     ASSERT_TRUE(check.step());
     EXPECT_EQ(check.column_text(0), "ok");
-    for (const auto& src : s.sources())
-        EXPECT_EQ(src.parts, 2000) << src.name;
+    for (const auto& src : s.sources()) EXPECT_EQ(src.parts, 2000) << src.name;
 }
 
 TEST(Store, StringsThatLookLikeSqlAreStoredVerbatim) {
@@ -511,12 +502,8 @@ TEST(Store, DefaultPathFollowsEnvironment) {
     EXPECT_EQ(Store::default_path(), fs::path("/tmp/xdg-test/coilsieve/catalog.db"));
     ::setenv("COILSIEVE_DB", "/tmp/elsewhere.db", 1);
     EXPECT_EQ(Store::default_path(), fs::path("/tmp/elsewhere.db"));
-    if (old_db)
-        ::setenv("COILSIEVE_DB", keep_db.c_str(), 1);
-    else
-        ::unsetenv("COILSIEVE_DB");
-    if (old_xdg)
-        ::setenv("XDG_DATA_HOME", keep_xdg.c_str(), 1);
-    else
-        ::unsetenv("XDG_DATA_HOME");
+    if (old_db) ::setenv("COILSIEVE_DB", keep_db.c_str(), 1);
+    else ::unsetenv("COILSIEVE_DB");
+    if (old_xdg) ::setenv("XDG_DATA_HOME", keep_xdg.c_str(), 1);
+    else ::unsetenv("XDG_DATA_HOME");
 }

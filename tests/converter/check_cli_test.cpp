@@ -1,16 +1,14 @@
 // `coilsieve check` end to end: the real binary, a temporary catalog (filled from the starter
 // set) and the reading-lamp example design.
 
-#include <gtest/gtest.h>
-#include <nlohmann/json.hpp>
-
-#include <sys/wait.h>
-#include <unistd.h>
-
 #include <array>
 #include <cstdio>
 #include <filesystem>
+#include <gtest/gtest.h>
+#include <nlohmann/json.hpp>
 #include <string>
+#include <sys/wait.h>
+#include <unistd.h>
 
 namespace {
 
@@ -54,17 +52,19 @@ TEST_F(CheckCommand, JsonHasTheDocumentedKeys) {
     const CommandRun r = run(base() + " --json");
     ASSERT_TRUE(r.code == 0 || r.code == 1) << r.out;
     const auto j = nlohmann::json::parse(r.out);
-    for (const char* k : {"design", "inductor", "diode", "setting", "corners", "feasible",
-                          "violations"})
+    for (const char* k :
+         {"design", "inductor", "diode", "setting", "corners", "feasible", "violations"})
         EXPECT_TRUE(j.contains(k)) << k;
     EXPECT_EQ(j["design"], "reading lamp");
     ASSERT_TRUE(j["corners"].is_array());
     ASSERT_FALSE(j["corners"].empty());
     for (const auto& c : j["corners"]) {
-        for (const char* k : {"name", "vin", "ambient", "duty", "f_sw", "t_on", "t_off", "il_avg",
-                              "il_peak", "il_valley", "il_ripple_pp", "il_rms", "load_i_avg",
-                              "load_ripple_pp", "id_avg", "id_rms", "isw_rms", "dcm", "losses",
-                              "p_out", "efficiency", "t_inductor", "tj_diode"})
+        for (const char* k :
+             {"name",         "vin",        "ambient",    "duty",           "f_sw",
+              "t_on",         "t_off",      "il_avg",     "il_peak",        "il_valley",
+              "il_ripple_pp", "il_rms",     "load_i_avg", "load_ripple_pp", "id_avg",
+              "id_rms",       "isw_rms",    "dcm",        "losses",         "p_out",
+              "efficiency",   "t_inductor", "tj_diode"})
             EXPECT_TRUE(c.contains(k)) << k;
         EXPECT_TRUE(c["losses"].contains("total"));
     }

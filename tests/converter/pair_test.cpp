@@ -3,10 +3,9 @@
 #include "converter/evaluate.hpp"
 #include "converter/json.hpp"
 
-#include <gtest/gtest.h>
-
 #include <algorithm>
 #include <cmath>
+#include <gtest/gtest.h>
 #include <set>
 #include <string>
 
@@ -177,10 +176,10 @@ TEST(Pair, SaturationLimitBreaksWithTheDocumentedMargin) {
 
 TEST(Pair, ReverseVoltageHeightAndEfficiencyLimits) {
     auto d = led_design();
-    d.limits.height_max = 2.5e-3;          // the 3 mm inductor is too tall, the diode fits
-    d.limits.efficiency_min = 0.995;       // no real pair reaches this
+    d.limits.height_max = 2.5e-3;    // the 3 mm inductor is too tall, the diode fits
+    d.limits.efficiency_min = 0.995; // no real pair reaches this
     auto dd = diode();
-    dd.vrrm = 30.0;                        // 28 V > 0.8 × 30 V
+    dd.vrrm = 30.0; // 28 V > 0.8 × 30 V
     const auto e = evaluate_pair(d, inductor(), dd, default_setting(d));
     EXPECT_FALSE(e.feasible);
     std::set<std::string> broken;
@@ -228,13 +227,15 @@ TEST(Pair, JsonCarriesTheDocumentedKeys) {
     const auto e = evaluate_pair(d, inductor(), diode(), default_setting(d));
     const nlohmann::json j = e.corners.front();
     for (const char* key :
-         {"name", "vin", "ambient", "duty", "f_sw", "t_on", "t_off", "il_avg", "il_peak",
-          "il_valley", "il_ripple_pp", "il_rms", "load_i_avg", "load_ripple_pp", "id_avg", "id_rms",
-          "isw_rms", "dcm", "losses", "p_out", "efficiency", "t_inductor", "tj_diode"})
+         {"name",         "vin",        "ambient",    "duty",           "f_sw",
+          "t_on",         "t_off",      "il_avg",     "il_peak",        "il_valley",
+          "il_ripple_pp", "il_rms",     "load_i_avg", "load_ripple_pp", "id_avg",
+          "id_rms",       "isw_rms",    "dcm",        "losses",         "p_out",
+          "efficiency",   "t_inductor", "tj_diode"})
         EXPECT_TRUE(j.contains(key)) << key;
-    for (const char* key : {"inductor_copper", "inductor_core", "diode_conduction",
-                            "diode_switching", "diode_leakage", "switch_conduction",
-                            "switch_switching", "sense", "total"})
+    for (const char* key :
+         {"inductor_copper", "inductor_core", "diode_conduction", "diode_switching",
+          "diode_leakage", "switch_conduction", "switch_switching", "sense", "total"})
         EXPECT_TRUE(j["losses"].contains(key)) << key;
     EXPECT_TRUE(j["f_sw"].is_number());
 }

@@ -2,9 +2,8 @@
 
 #include "converter/segment.hpp"
 
-#include <gtest/gtest.h>
-
 #include <cmath>
+#include <gtest/gtest.h>
 
 namespace coilsieve::converter {
 namespace {
@@ -48,9 +47,9 @@ TEST(Segment, ChargeAndSquareIntegralsMatchQuadrature) {
         Segment s;
         double i0, dt;
     };
-    const Case cases[] = {{{10.0, 5.0, 1e-3}, 0.5, 1e-6},   // z = 0.005, series branch
-                          {{10.0, 5.0, 1e-3}, 0.5, 3e-4},   // z = 1.5
-                          {{-12.0, 2.0, 1e-4}, 1.2, 2e-5},  // falling, z = 0.4
+    const Case cases[] = {{{10.0, 5.0, 1e-3}, 0.5, 1e-6},     // z = 0.005, series branch
+                          {{10.0, 5.0, 1e-3}, 0.5, 3e-4},     // z = 1.5
+                          {{-12.0, 2.0, 1e-4}, 1.2, 2e-5},    // falling, z = 0.4
                           {{-12.0, 2.0, 1e-4}, 1.2, 2.4e-6}}; // falling, z = 0.048
     for (const auto& c : cases) {
         const double tau = c.s.l / c.s.r;

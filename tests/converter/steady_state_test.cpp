@@ -2,9 +2,8 @@
 
 #include "fixtures.hpp"
 
-#include <gtest/gtest.h>
-
 #include <cmath>
+#include <gtest/gtest.h>
 
 namespace coilsieve::converter {
 namespace {
@@ -85,12 +84,12 @@ TEST(Hysteretic, LargeResistanceFollowsTheExponentialNotTheRamp) {
     auto ind = ideal_inductor(l);
     ind.dcr_typ = ind.dcr_max = dcr;
     ind.dcr_t0 = 298.15; // the test runs at 25 °C with no heating: DCR as given
-    const auto r = evaluate_corner(d, ind, ideal_diode(), corner_for(d, vin, vo, 0.0, 1.0),
-                                   band_setting(di));
+    const auto r =
+        evaluate_corner(d, ind, ideal_diode(), corner_for(d, vin, vo, 0.0, 1.0), band_setting(di));
     ASSERT_EQ(r.status, CornerStatus::ok) << r.reason;
     const double tau = l / dcr;
-    const double i_inf_on = (vin - vo) / dcr;   // 1.5 A
-    const double i_inf_off = -vo / dcr;         // −1.5 A (ideal diode)
+    const double i_inf_on = (vin - vo) / dcr; // 1.5 A
+    const double i_inf_off = -vo / dcr;       // −1.5 A (ideal diode)
     const double t_on = tau * std::log((i_inf_on - 0.8) / (i_inf_on - 1.2));
     const double t_off = tau * std::log((i_inf_off - 1.2) / (i_inf_off - 0.8));
     EXPECT_NEAR(r.t_on, t_on, 1e-5 * t_on);
@@ -211,7 +210,7 @@ TEST(Losses, DiodeConductionIsTheAverageOfVfTimesCurrent) {
     const double vin = 24.0, vo = 12.0, l = 30e-6, band = 1.2;
     auto d = sink_design(vin, vo, 0.0, 1.0);
     auto diode = schottky();
-    diode.rth_ja = 1e-6;   // junction at ambient
+    diode.rth_ja = 1e-6; // junction at ambient
     diode.ir_ref = 0.0;
     const auto r = evaluate_corner(d, ideal_inductor(l), diode, corner_for(d, vin, vo, 0.0, 1.0),
                                    band_setting(band));
@@ -240,7 +239,7 @@ TEST(Thermal, LeakySchottkyAtHighReverseVoltageRunsAway) {
     auto d = sink_design(48.0, 12.0, 0.5, 1.0);
     d.ambient.max = 358.15;
     auto diode = schottky();
-    diode.ir_ref = 2e-3;   // 2 mA at 40 V, 25 °C: a very leaky part
+    diode.ir_ref = 2e-3; // 2 mA at 40 V, 25 °C: a very leaky part
     diode.rth_ja = 120.0;
     const auto r = evaluate_corner(d, drum(47e-6, 0.05, 3.0), diode,
                                    corner_for(d, 48.0, 12.0, 0.5, 1.0, 358.15), band_setting(0.3));
@@ -266,8 +265,8 @@ TEST(Thermal, InductorTemperatureIsItsOwnFixedPoint) {
     const auto r = evaluate_corner(d, l, schottky(), corner_for(d, 24.0, 12.0, 0.5, 1.5, 323.15),
                                    band_setting(0.3));
     ASSERT_EQ(r.status, CornerStatus::ok) << r.reason;
-    EXPECT_NEAR(r.t_inductor,
-                323.15 + l.rth * (r.losses.inductor_copper + r.losses.inductor_core), 0.1);
+    EXPECT_NEAR(r.t_inductor, 323.15 + l.rth * (r.losses.inductor_copper + r.losses.inductor_core),
+                0.1);
     // The copper loss uses DCR at that temperature (IEC 60028 copper, α20 = 0.00393 /K).
     EXPECT_GE(r.losses.inductor_copper, l.dcr(r.t_inductor) * r.il_avg * r.il_avg * 0.999);
 }
@@ -290,7 +289,7 @@ void expect_energy_balance(const design::Design& d, const parts::InductorModel& 
 }
 
 TEST(Losses, EnergyBalanceHoldsOnSeveralDesigns) {
-    {   // LED-like load, hysteretic with delay, soft losses everywhere
+    { // LED-like load, hysteretic with delay, soft losses everywhere
         auto d = sink_design(24.0, 17.0, 2.0, 0.7);
         d.sense_resistor = 0.3;
         d.control.delay = 80e-9;
@@ -298,7 +297,7 @@ TEST(Losses, EnergyBalanceHoldsOnSeveralDesigns) {
         expect_energy_balance(d, drum(68e-6, 0.2, 1.2), schottky(),
                               corner_for(d, 24.0, 17.0, 2.0, 0.7, 328.15), band_setting(0.2));
     }
-    {   // the same with an output capacitor
+    { // the same with an output capacitor
         auto d = sink_design(24.0, 17.0, 2.0, 0.7);
         d.sense_resistor = 0.3;
         d.control.delay = 80e-9;
@@ -306,7 +305,7 @@ TEST(Losses, EnergyBalanceHoldsOnSeveralDesigns) {
         expect_energy_balance(d, drum(68e-6, 0.2, 1.2), schottky(),
                               corner_for(d, 24.0, 17.0, 2.0, 0.7, 328.15), band_setting(0.2));
     }
-    {   // PWM, continuous, peak at about 0.93 Isat: L falls by about 20 % over the ripple
+    { // PWM, continuous, peak at about 0.93 Isat: L falls by about 20 % over the ripple
         auto d = sink_design(36.0, 12.0, 0.2, 2.0);
         d.control.mode = design::ControlMode::pwm;
         d.control.frequency = 150e3;
@@ -314,14 +313,14 @@ TEST(Losses, EnergyBalanceHoldsOnSeveralDesigns) {
         expect_energy_balance(d, drum(22e-6, 0.04, 3.5), schottky(),
                               corner_for(d, 36.0, 12.0, 0.2, 2.0, 318.15), pwm_setting(150e3));
     }
-    {   // PWM, discontinuous
+    { // PWM, discontinuous
         auto d = sink_design(24.0, 6.0, 0.1, 0.2);
         d.control.mode = design::ControlMode::pwm;
         d.control.frequency = 100e3;
         expect_energy_balance(d, drum(22e-6, 0.1, 2.0), schottky(),
                               corner_for(d, 24.0, 6.0, 0.1, 0.2), pwm_setting(100e3));
     }
-    {   // hysteretic, wide band deep into the roll-off (sub-stretches in current)
+    { // hysteretic, wide band deep into the roll-off (sub-stretches in current)
         auto d = sink_design(30.0, 10.0, 0.3, 1.5);
         d.sense_resistor = 0.1;
         expect_energy_balance(d, drum(33e-6, 0.08, 1.6), schottky(),

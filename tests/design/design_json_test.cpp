@@ -242,8 +242,14 @@ TEST(DesignFile, MalformedFieldsAreNamed) {
     const std::vector<Case> cases{
         {[](json& j) { j["supply"].erase("min"); }, "supply.min", "missing"},
         {[](json& j) { j["supply"]["min"] = "20A"; }, "supply.min", "is a current"},
-        {[](json& j) { j["pareto"] = {"loss", "colour"}; }, "pareto[1]", "known: loss, size"},
-        {[](json& j) { j["pareto"] = {"loss", "loss"}; }, "pareto[1]", "listed twice"},
+        {[](json& j) {
+             j["pareto"] = {"loss", "colour"};
+         },
+         "pareto[1]", "known: loss, size"},
+        {[](json& j) {
+             j["pareto"] = {"loss", "loss"};
+         },
+         "pareto[1]", "listed twice"},
         {[](json& j) { j["pareto"] = {"loss"}; }, "pareto", "at least two"},
         {[](json& j) { j["pareto"] = "loss"; }, "pareto", "list of objectives"},
         {[](json& j) { j["supply"]["min"] = "20A"; }, "supply.min", "expected a voltage"},

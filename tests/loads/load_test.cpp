@@ -85,8 +85,7 @@ TEST(Loads, ChargeProfileWeightsSumToOne) {
         const double sum = std::accumulate(
             pts.begin(), pts.end(), 0.0, [](double s, const LoadPoint& p) { return s + p.weight; });
         EXPECT_NEAR(sum, 1.0, 1e-12);
-        for (const auto& p : pts)
-            EXPECT_GT(p.weight, 0.0) << p.name;
+        for (const auto& p : pts) EXPECT_GT(p.weight, 0.0) << p.name;
     }
 }
 

@@ -1,9 +1,8 @@
 // The COBYLA wrapper: bounds, constraints, best-feasible tracking, exception safety.
 #include "optimisation/solver.hpp"
 
-#include <gtest/gtest.h>
-
 #include <cmath>
+#include <gtest/gtest.h>
 #include <stdexcept>
 
 using namespace coilsieve::optimisation;

@@ -2,9 +2,8 @@
 // form or by a brute-force scan.
 #include "optimisation/tune.hpp"
 
-#include <gtest/gtest.h>
-
 #include <cmath>
+#include <gtest/gtest.h>
 #include <random>
 
 using namespace coilsieve;
@@ -21,8 +20,8 @@ struct SyntheticPair {
         converter::PairEvaluation e;
         const double f = c / s.band;
         converter::LimitCheck fl{"f_sw_max", "vin-max", f, f_max, (f_max - f) / f_max, ""};
-        converter::LimitCheck rl{"load_ripple", "vin-max", s.band, ripple_cap,
-                                 (ripple_cap - s.band) / ripple_cap, ""};
+        converter::LimitCheck rl{
+            "load_ripple", "vin-max", s.band, ripple_cap, (ripple_cap - s.band) / ripple_cap, ""};
         e.checks = {fl, rl};
         for (const auto& ch : e.checks)
             if (ch.margin < 0) e.violations.push_back(ch);

@@ -31,17 +31,14 @@ Diode part_from_points(const SpiceForward& truth, const std::vector<std::pair<do
     d.technology = tech;
     d.if_avg = 3.0;
     d.vrrm = 40.0;
-    for (auto [i, t] : it)
-        d.forward.push_back({m.vf(i, t), i, t});
+    for (auto [i, t] : it) d.forward.push_back({m.vf(i, t), i, t});
     return d;
 }
 
-template <class F>
-double simpson(F f, double a, double b, int n) {
+template <class F> double simpson(F f, double a, double b, int n) {
     const double h = (b - a) / n;
     double s = f(a) + f(b);
-    for (int k = 1; k < n; ++k)
-        s += f(a + h * k) * (k % 2 ? 4.0 : 2.0);
+    for (int k = 1; k < n; ++k) s += f(a + h * k) * (k % 2 ? 4.0 : 2.0);
     return s * h / 3.0;
 }
 
@@ -81,8 +78,7 @@ std::vector<SweepPoint> ngspice_sweep(const SpiceForward& f, double temp_c,
     std::ifstream in(out);
     std::vector<SweepPoint> pts;
     double i = 0, v = 0;
-    while (in >> i >> v)
-        pts.push_back({i, v});
+    while (in >> i >> v) pts.push_back({i, v});
     in.close();
     std::error_code ec;
     fs::remove_all(dir, ec);
@@ -156,8 +152,7 @@ TEST(DiodeModel, FitWithPnDefaultsAndTwoPoints) {
         part_from_points(truth, {{0.2, 298.15}, {2.0, 298.15}}, DiodeTechnology::ultrafast);
     const SpiceForward fit = fit_forward(d);
     const auto m = model_with(fit);
-    for (const auto& p : d.forward)
-        EXPECT_NEAR(m.vf(p.current, p.temperature), p.vf, 1e-6);
+    for (const auto& p : d.forward) EXPECT_NEAR(m.vf(p.current, p.temperature), p.vf, 1e-6);
     EXPECT_NEAR(fit.rs, 0.06, 1e-4);
 }
 

@@ -31,12 +31,10 @@ Inductor sample_part() {
 }
 
 // Composite Simpson rule on [a, b] with n (even) intervals.
-template <class F>
-double simpson(F f, double a, double b, int n) {
+template <class F> double simpson(F f, double a, double b, int n) {
     const double h = (b - a) / n;
     double s = f(a) + f(b);
-    for (int k = 1; k < n; ++k)
-        s += f(a + h * k) * (k % 2 ? 4.0 : 2.0);
+    for (int k = 1; k < n; ++k) s += f(a + h * k) * (k % 2 ? 4.0 : 2.0);
     return s * h / 3.0;
 }
 
@@ -193,8 +191,7 @@ TEST(InductorModel, ThermalResistanceReproducesRatedRise) {
     // thermal fixed point T = Ta + R_th·I²·DCR(T) must sit exactly irms_rise above ambient.
     const double ta = 293.15;
     double t = ta;
-    for (int k = 0; k < 200; ++k)
-        t = ta + m.rth * 2.5 * 2.5 * m.dcr(t);
+    for (int k = 0; k < 200; ++k) t = ta + m.rth * 2.5 * 2.5 * m.dcr(t);
     EXPECT_NEAR(t - ta, 40.0, 1e-9);
 }
 

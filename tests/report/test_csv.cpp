@@ -91,8 +91,7 @@ TEST(CsvRoundTrip, TrickyFieldsSurvive) {
         {"x", "35.0 m\u03A9", "55.0 \u00B0C"},
     };
     std::string text;
-    for (const auto& r : records)
-        text += csv_line(r);
+    for (const auto& r : records) text += csv_line(r);
     EXPECT_EQ(read_rfc4180(text), records);
 }
 

@@ -148,8 +148,7 @@ TEST(CycleSimulator, FreewheelingDiodeClampsTheSwitchNode) {
     const SimulationResult r = simulate(testing::led_hysteretic(100e-9));
     ASSERT_FALSE(r.waveform.empty());
     double v_min = 1e9;
-    for (const auto& s : r.waveform)
-        v_min = std::min(v_min, s.v_sw);
+    for (const auto& s : r.waveform) v_min = std::min(v_min, s.v_sw);
     EXPECT_LT(v_min, -0.2);
     EXPECT_GT(v_min, -1.0);
 }

@@ -2,7 +2,6 @@
 #include "studies/pareto.hpp"
 
 #include <gtest/gtest.h>
-
 #include <random>
 
 using namespace coilsieve::studies;

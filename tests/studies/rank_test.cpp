@@ -42,8 +42,8 @@ TEST(Rank, ScreeningRemovesTheSaturatingInductorAndTheLowVoltageDiode) {
         } else {
             EXPECT_EQ(D()[s.index].id, "D-15V");
             EXPECT_EQ(s.reasons.front().limit, "vrrm");
-            EXPECT_DOUBLE_EQ(s.reasons.front().value, 28.0);  // Vin max
-            EXPECT_DOUBLE_EQ(s.reasons.front().bound, 12.0);  // 0.8 · 15 V
+            EXPECT_DOUBLE_EQ(s.reasons.front().value, 28.0); // Vin max
+            EXPECT_DOUBLE_EQ(s.reasons.front().bound, 12.0); // 0.8 · 15 V
         }
     }
     EXPECT_EQ(r.counts.screened_by_limit.at("isat"), 1u);

@@ -9,10 +9,9 @@
 #include "studies/rank.hpp"
 #include "studies/result_json.hpp"
 
-#include <gtest/gtest.h>
-
 #include <algorithm>
 #include <fstream>
+#include <gtest/gtest.h>
 #include <map>
 #include <set>
 #include <sstream>
@@ -49,16 +48,18 @@ class StarterCatalog : public ::testing::TestWithParam<std::string> {};
 } // namespace
 
 TEST_P(StarterCatalog, PrunedEqualsExhaustiveAndBoundsHold) {
-    const auto d = design::load_design_file(std::string(COILSIEVE_SOURCE_DIR) +
-                                            "/data/examples/" + GetParam());
+    const auto d = design::load_design_file(std::string(COILSIEVE_SOURCE_DIR) + "/data/examples/" +
+                                            GetParam());
     const auto& s = starter();
     ASSERT_GE(s.inductors.size(), 600u);
     ASSERT_GE(s.diodes.size(), 100u);
     studies::RankOptions pruned, full;
     full.exhaustive = true;
     full.keep_all = true;
-    const auto rp = studies::rank_pairs(d, s.inductors, s.diodes, pruned, studies::default_evaluator());
-    const auto rf = studies::rank_pairs(d, s.inductors, s.diodes, full, studies::default_evaluator());
+    const auto rp =
+        studies::rank_pairs(d, s.inductors, s.diodes, pruned, studies::default_evaluator());
+    const auto rf =
+        studies::rank_pairs(d, s.inductors, s.diodes, full, studies::default_evaluator());
     EXPECT_EQ(listed(rp.top), listed(rf.top));
     EXPECT_EQ(listed(rp.pareto), listed(rf.pareto));
     for (const auto& p : rf.all) {
@@ -93,21 +94,24 @@ TEST_P(StarterCatalog, PrunedEqualsExhaustiveAndBoundsHold) {
 }
 
 TEST_P(StarterCatalog, OneAndTwoThreadsAgree) {
-    const auto d = design::load_design_file(std::string(COILSIEVE_SOURCE_DIR) +
-                                            "/data/examples/" + GetParam());
+    const auto d = design::load_design_file(std::string(COILSIEVE_SOURCE_DIR) + "/data/examples/" +
+                                            GetParam());
     const auto& s = starter();
     studies::RankOptions one, two;
     one.threads = 1;
     two.threads = 2;
-    const auto r1 = studies::rank_pairs(d, s.inductors, s.diodes, one, studies::default_evaluator());
-    const auto r2 = studies::rank_pairs(d, s.inductors, s.diodes, two, studies::default_evaluator());
+    const auto r1 =
+        studies::rank_pairs(d, s.inductors, s.diodes, one, studies::default_evaluator());
+    const auto r2 =
+        studies::rank_pairs(d, s.inductors, s.diodes, two, studies::default_evaluator());
     EXPECT_EQ(listed(r1.top), listed(r2.top));
     EXPECT_EQ(listed(r1.pareto), listed(r2.pareto));
     EXPECT_EQ(r1.counts.pairs_tuned, r2.counts.pairs_tuned); // fixed batches: same pairs tuned
 }
 
-// More Pareto objectives weaken the pruning (ripple and margin bounds are per inductor) but must not
-// change the answer: the pruned set equals the non-dominated set of every pair tuned exhaustively.
+// More Pareto objectives weaken the pruning (ripple and margin bounds are per inductor) but must
+// not change the answer: the pruned set equals the non-dominated set of every pair tuned
+// exhaustively.
 TEST(StarterCatalogPareto, FourObjectiveSetEqualsBruteForce) {
     auto d = design::load_design_file(std::string(COILSIEVE_SOURCE_DIR) +
                                       "/data/examples/reading-lamp.json");
@@ -117,8 +121,10 @@ TEST(StarterCatalogPareto, FourObjectiveSetEqualsBruteForce) {
     studies::RankOptions pruned, full;
     full.exhaustive = true;
     full.keep_all = true;
-    const auto rp = studies::rank_pairs(d, s.inductors, s.diodes, pruned, studies::default_evaluator());
-    const auto rf = studies::rank_pairs(d, s.inductors, s.diodes, full, studies::default_evaluator());
+    const auto rp =
+        studies::rank_pairs(d, s.inductors, s.diodes, pruned, studies::default_evaluator());
+    const auto rf =
+        studies::rank_pairs(d, s.inductors, s.diodes, full, studies::default_evaluator());
     EXPECT_EQ(rp.pareto_axes, (std::vector<std::string>{"loss", "size", "ripple", "margin"}));
     std::vector<studies::PairResult> feasible;
     std::vector<std::vector<double>> points;

@@ -7,10 +7,9 @@
 #include "fixtures.hpp"
 #include "studies/study_store.hpp"
 
-#include <gtest/gtest.h>
-
 #include <filesystem>
 #include <fstream>
+#include <gtest/gtest.h>
 #include <sstream>
 
 using namespace coilsieve;
@@ -22,8 +21,9 @@ class StudyFlow : public ::testing::Test {
 protected:
     void SetUp() override {
         dir_ = fs::temp_directory_path() /
-               ("coilsieve-study-" + std::to_string(::testing::UnitTest::GetInstance()->random_seed()) +
-                "-" + ::testing::UnitTest::GetInstance()->current_test_info()->name());
+               ("coilsieve-study-" +
+                std::to_string(::testing::UnitTest::GetInstance()->random_seed()) + "-" +
+                ::testing::UnitTest::GetInstance()->current_test_info()->name());
         fs::remove_all(dir_);
         fs::create_directories(dir_);
         db_ = (dir_ / "catalog.db").string();
@@ -103,7 +103,8 @@ TEST_F(StudyFlow, SaveListRerunDiffDelete) {
     ASSERT_TRUE(s2.parent_id.has_value());
     EXPECT_EQ(*s2.parent_id, s1.id);
     EXPECT_EQ(s2.parent_name, "s1");
-    for (const auto& k : keys(s2.results["results"])) EXPECT_NE(k.find("L-SMALL"), std::string::npos);
+    for (const auto& k : keys(s2.results["results"]))
+        EXPECT_NE(k.find("L-SMALL"), std::string::npos);
 
     const auto d = studies::diff_studies(s1, s2);
     EXPECT_EQ(d.left_top, (std::vector<std::string>{"hand:L-BIG + hand:D-40V"}));
@@ -161,9 +162,9 @@ TEST_F(StudyFlow, ImportedBetterPartEntersTheDiff) {
     EXPECT_TRUE(d.catalog_changed);
     EXPECT_NE(std::find(d.entered_top.begin(), d.entered_top.end(), "hand:L-BEST + hand:D-40V"),
               d.entered_top.end());
-    EXPECT_NE(std::find(d.entered_pareto.begin(), d.entered_pareto.end(),
-                        "hand:L-BEST + hand:D-40V"),
-              d.entered_pareto.end());
+    EXPECT_NE(
+        std::find(d.entered_pareto.begin(), d.entered_pareto.end(), "hand:L-BEST + hand:D-40V"),
+        d.entered_pareto.end());
     EXPECT_NE(std::find(d.left_pareto.begin(), d.left_pareto.end(), "hand:L-BIG + hand:D-40V"),
               d.left_pareto.end());
 }

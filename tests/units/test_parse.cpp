@@ -307,8 +307,7 @@ TEST(ParseRejects, GarbageNeverCrashesOrReturnsNaN) {
     for (int round = 0; round < 20000; ++round) {
         std::string text;
         const std::uint32_t len = next() % 7;
-        for (std::uint32_t k = 0; k < len; ++k)
-            text += pieces[next() % n_pieces];
+        for (std::uint32_t k = 0; k < len; ++k) text += pieces[next() % n_pieces];
         const auto d = static_cast<Dimension>(next() % 21);
         try {
             const double v = parse(text, d);

@@ -42,10 +42,8 @@ TEST(ESeries, CoarserSeriesAreEveryOtherValue) {
     const auto e6 = as_vector(6);
     const auto e12 = as_vector(12);
     const auto e24 = as_vector(24);
-    for (std::size_t i = 0; i < e12.size(); ++i)
-        EXPECT_EQ(e12[i], e24[2 * i]);
-    for (std::size_t i = 0; i < e6.size(); ++i)
-        EXPECT_EQ(e6[i], e12[2 * i]);
+    for (std::size_t i = 0; i < e12.size(); ++i) EXPECT_EQ(e12[i], e24[2 * i]);
+    for (std::size_t i = 0; i < e6.size(); ++i) EXPECT_EQ(e6[i], e12[2 * i]);
 }
 
 TEST(ESeries, NotTheRoundedGeometricSeries) {
