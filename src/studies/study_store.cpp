@@ -250,8 +250,15 @@ std::string diff_text(const StudyDiff& d) {
         os << "  " << c.key;
         if (c.rank_before && c.rank_after && *c.rank_before != *c.rank_after)
             os << "  rank " << *c.rank_before << " -> " << *c.rank_after;
+        // The tuner's round-off moves a figure by parts per million when nothing that matters
+        // changed; the text shows changes of 0.01 % or more (the JSON keeps them all).
+        std::vector<ObjectiveChange> shown;
+        for (const auto& ch : c.changes)
+            if (ch.before == 0.0 || std::abs(ch.after - ch.before) >= 1e-4 * std::abs(ch.before))
+                shown.push_back(ch);
         if (c.changes.empty()) os << "  unchanged";
-        for (const auto& ch : c.changes) {
+        else if (shown.empty()) os << "  unchanged (within 0.01 %)";
+        for (const auto& ch : shown) {
             os << "  " << ch.objective << " " << num(ch.before) << " -> " << num(ch.after);
             if (ch.before != 0.0)
                 os << " (" << (ch.after >= ch.before ? "+" : "")
