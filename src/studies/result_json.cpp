@@ -44,26 +44,29 @@ nlohmann::json pair_to_json(const PairResult& p, const RankResult& r,
     j["key"] = pair_key(p, inductors, diodes);
     if (p.rank > 0) j["rank"] = p.rank;
     else j["rank"] = nullptr;
-    j["inductor"] = {{"id", l.id},
-                     {"source", l.source},
-                     {"inductance", l.inductance},
-                     {"dcr", l.dcr_typ},
-                     {"isat", l.isat},
-                     {"irms", l.irms},
-                     {"length", l.length},
-                     {"width", l.width},
-                     {"height", l.height},
-                     {"price", l.price ? nlohmann::json(*l.price) : nlohmann::json(nullptr)}};
+    // The part ids, as `check --json` gives them; the figures beside them.
+    j["inductor"] = l.id;
+    j["diode"] = d.id;
+    j["inductor_part"] = {{"id", l.id},
+                          {"source", l.source},
+                          {"inductance", l.inductance},
+                          {"dcr", l.dcr_typ},
+                          {"isat", l.isat},
+                          {"irms", l.irms},
+                          {"length", l.length},
+                          {"width", l.width},
+                          {"height", l.height},
+                          {"price", l.price ? nlohmann::json(*l.price) : nlohmann::json(nullptr)}};
     double vf = 0.0;
     if (!d.forward.empty()) vf = d.forward.front().vf;
-    j["diode"] = {{"id", d.id},
-                  {"source", d.source},
-                  {"technology", std::string(parts::to_string(d.technology))},
-                  {"vrrm", d.vrrm},
-                  {"if_avg", d.if_avg},
-                  {"vf", vf},
-                  {"package", d.package},
-                  {"price", d.price ? nlohmann::json(*d.price) : nlohmann::json(nullptr)}};
+    j["diode_part"] = {{"id", d.id},
+                       {"source", d.source},
+                       {"technology", std::string(parts::to_string(d.technology))},
+                       {"vrrm", d.vrrm},
+                       {"if_avg", d.if_avg},
+                       {"vf", vf},
+                       {"package", d.package},
+                       {"price", d.price ? nlohmann::json(*d.price) : nlohmann::json(nullptr)}};
     nlohmann::json setting;
     if (r.range.variable == optimisation::Variable::band) setting["band"] = best.setting.band;
     else setting["frequency"] = best.setting.frequency;
