@@ -453,22 +453,23 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
 
     // Phase 1, the top N: pairs in ascending order of their separable score bound. Once that
     // bound is above the N-th best score, no later pair can enter the top N (the bound only
-    // grows along the stream, the N-th score only falls).
-    std::vector<Job> deferred; // out of the top N, perhaps on the Pareto set
+    // grows along the stream, the N-th score only falls). `deferred` keeps the pairs out of the
+    // top N that may still be on the Pareto set: (row, column) in the sorted lists.
+    std::vector<std::pair<std::size_t, std::size_t>> deferred;
     CandidateStream::Item it{};
     bool phase1_over = false;
     while (!phase1_over && stream.pop(it)) {
         if (!options.exhaustive && it.key > threshold()) {
             if (!batch.empty()) run_batch();
             if (it.key > threshold()) {
-                deferred.push_back(make_job(it.row, it.col));
+                deferred.emplace_back(it.row, it.col);
                 phase1_over = true;
                 break;
             }
         }
         Job job = make_job(it.row, it.col);
         if (!options.exhaustive && job.r.bound > threshold()) {
-            deferred.push_back(std::move(job));
+            deferred.emplace_back(it.row, it.col);
             continue;
         }
         batch.push_back(std::move(job));
@@ -480,11 +481,13 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
     // the optimistic loss, a pair is reached only after every pair that could dominate it
     // (its loss is no lower than its bound), so the front that tests it is as full as it can be.
     // Rows not yet expanded stand for all their remaining pairs with the row's own bound.
+    // Entries hold no job: a pair's job is made when it is taken into a batch, so the queue stays
+    // small on large catalogs.
     struct Entry {
         double key = 0.0;
         bool row = false; // a row remainder: inductor `row_index`, columns from `col`
         std::size_t row_index = 0, col = 0;
-        std::size_t job = 0; // index into `jobs` when !row
+        bool probed = false; // `key` is the loss bound its probe gave
         bool operator>(const Entry& o) const {
             if (key != o.key) return key > o.key;
             if (row_index != o.row_index) return row_index > o.row_index;
@@ -492,11 +495,10 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
             return row > o.row;
         }
     };
-    std::vector<Job> jobs;
     std::priority_queue<Entry, std::vector<Entry>, std::greater<Entry>> queue;
-    auto push_job = [&](Job&& job, std::size_t row, std::size_t col) {
-        queue.push({job.optimistic.loss, false, row, col, jobs.size()});
-        jobs.push_back(std::move(job));
+    auto push_pair = [&](std::size_t row, std::size_t col) {
+        const auto o = optimistic(lrows[row], dcols[col]);
+        queue.push({o.loss, false, row, col, false});
     };
     std::vector<std::size_t> row_of(lprep.size(), 0);
     for (std::size_t r = 0; r < lrows.size(); ++r) row_of[lrows[r]] = r;
@@ -517,14 +519,11 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         if (lp && std::isfinite(min_d_price)) o.cost = *lp + min_d_price;
         return o;
     };
-    if (phase1_over) {
-        for (auto& job : deferred) push_job(std::move(job), row_of[job.lk], col_of[job.dk]);
-        for (const auto& rest : stream.remaining())
-            queue.push({row_vector(rest.row).loss, true, rest.row, rest.col, 0});
-    } else {
-        for (auto& job : deferred) push_job(std::move(job), row_of[job.lk], col_of[job.dk]);
-    }
+    for (const auto& [row, col] : deferred) push_pair(row, col);
     deferred.clear();
+    if (phase1_over)
+        for (const auto& rest : stream.remaining())
+            queue.push({row_vector(rest.row).loss, true, rest.row, rest.col, false});
     while (!queue.empty() || !batch.empty()) {
         while (!queue.empty() && batch.size() < options.batch) {
             const Entry e = queue.top();
@@ -536,11 +535,14 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
                     done += n;
                     continue;
                 }
-                for (std::size_t c = e.col; c < dcols.size(); ++c)
-                    push_job(make_job(e.row_index, c), e.row_index, c);
+                for (std::size_t c = e.col; c < dcols.size(); ++c) push_pair(e.row_index, c);
                 continue;
             }
-            Job& job = jobs[e.job];
+            Job job = make_job(e.row_index, e.col);
+            if (e.probed) {
+                job.probed = true;
+                job.optimistic.loss = std::max(job.optimistic.loss, e.key);
+            }
             if (dominated_by_front(pareto_vector(job.optimistic, axes))) {
                 ++counts.pairs_pruned;
                 ++done;
@@ -551,10 +553,8 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         }
         if (batch.empty()) break;
         run_batch();
-        for (auto& job : requeue) {
-            const std::size_t row = row_of[job.lk], col = col_of[job.dk];
-            push_job(std::move(job), row, col);
-        }
+        for (const auto& job : requeue)
+            queue.push({job.optimistic.loss, false, row_of[job.lk], col_of[job.dk], true});
         requeue.clear();
     }
 

@@ -78,6 +78,8 @@ void report(benchmark::State& state, const studies::RankResult& r) {
     state.counters["pairs"] = static_cast<double>(r.counts.pairs_total);
     state.counters["tuned"] = static_cast<double>(r.counts.pairs_tuned);
     state.counters["pruned"] = static_cast<double>(r.counts.pairs_pruned);
+    state.counters["probed"] = static_cast<double>(r.counts.pairs_probed);
+    state.counters["screened_in"] = static_cast<double>(r.counts.pairs_considered);
     state.counters["seconds"] = r.elapsed_s;
     state.counters["pairs_per_s"] = static_cast<double>(r.counts.pairs_total) / r.elapsed_s;
     state.counters["peak_MB"] = peak_mb();
