@@ -7,6 +7,7 @@
 #include <cmath>
 #include <map>
 #include <numbers>
+#include <string>
 #include <vector>
 
 namespace coilsieve::studies {
@@ -33,7 +34,6 @@ struct CornerParts {
     double r_off_ub = 0.0; // Ω: sense + hot DCR, the off-path resistance at most
     double r_off_lb = 0.0; // Ω: sense + DCR at the ambient, the off-path resistance at least
     double l_lo_cap = 0.0; // H: inductance at the Isat limit
-    double ron = 0.0;      // Ω: switch at the temperature the engine assumes
     bool capacitor = false;
     double cap = 0.0, esr = 0.0; // F, Ω of the output capacitor when it takes ripple
 };
@@ -76,10 +76,10 @@ public:
             p.l_hi = m.l0 * k.l_scale;
             p.l_lo_cap = m.inductance(std::max(0.0, peak_cap_), k.l_scale);
             const double t_sw = k.ambient + converter::switch_temperature_rise;
-            p.ron = std::max(0.0, d_.sw.on_resistance *
-                                      (1.0 + d_.sw.on_resistance_tempco * (t_sw - 298.15)));
+            const double ron = std::max(
+                0.0, d_.sw.on_resistance * (1.0 + d_.sw.on_resistance_tempco * (t_sw - 298.15)));
             const double rs = std::max(0.0, d_.sense_resistor);
-            p.r_on_ub = p.ron + rs + dcr_ub;
+            p.r_on_ub = ron + rs + dcr_ub;
             p.r_off_ub = rs + dcr_ub;
             p.r_off_lb = rs + std::max(0.0, m.dcr(k.ambient, false));
             p.capacitor = cap > 0.0 && k.r > 0.0;
