@@ -111,6 +111,11 @@ std::vector<Corner> make_corners(const design::Design& d, double l_tolerance) {
     return out;
 }
 
+double switch_on_resistance(const design::Switch& sw, double ambient) {
+    const double t_switch = ambient + switch_temperature_rise;
+    return std::max(0.0, sw.on_resistance * (1.0 + sw.on_resistance_tempco * (t_switch - t25)));
+}
+
 Setting default_setting(const design::Design& d) {
     Setting s;
     const double target = loads::target_current(d.load);

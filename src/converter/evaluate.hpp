@@ -17,6 +17,15 @@ namespace coilsieve::converter {
 // board).
 constexpr double switch_temperature_rise = 30.0; // K
 
+// The switch's on-resistance at a corner: R_on rises linearly from its 25 °C value (design.hpp)
+// and the switch sits switch_temperature_rise above the corner's ambient.
+double switch_on_resistance(const design::Switch& sw, double ambient);
+
+// Share |I_load/I_L| of the inductor's ripple at frequency f that flows in a load of dynamic
+// resistance r with a capacitor C (ESR) across it: the current divider with Z_c = ESR + 1/(jωC).
+// 1 without a capacitor; ESR/(ESR + r) as f grows without bound. Falls as f rises.
+double load_ripple_share(double r, double capacitance, double esr, double frequency);
+
 // The corners of a design for a part with inductance tolerance `l_tolerance` (fraction).
 std::vector<Corner> make_corners(const design::Design& d, double l_tolerance);
 

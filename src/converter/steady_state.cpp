@@ -29,7 +29,6 @@ namespace {
 
 using units::Dimension;
 
-constexpr double t25 = 298.15;           // K, reference of the switch's R_on
 constexpr double temperature_tol = 0.05; // K, thermal fixed point
 constexpr double current_tol = 1e-6;     // relative to the target, linearisation points
 constexpr int max_iterations = 50;
@@ -572,10 +571,7 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
     if (s.capacitance) cap_c = *s.capacitance;
     const bool capacitor = cap_c > 0.0 && c.point.r > 0.0;
 
-    // Switch R_on rises linearly from its 25 °C value (design.hpp); the switch sits at a fixed
-    // rise above ambient (switch_temperature_rise, an assumption).
-    const double ron = std::max(0.0, d.sw.on_resistance *
-                                         (1.0 + d.sw.on_resistance_tempco * (res.t_switch - t25)));
+    const double ron = switch_on_resistance(d.sw, c.ambient);
     const double r_sense = std::max(0.0, d.sense_resistor);
     const double v0 = c.point.v0;
     const double r_load = std::max(0.0, c.point.r);
@@ -950,6 +946,11 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
     const double denom = res.p_out + p.total;
     res.efficiency = denom > 0.0 ? std::clamp(res.p_out / denom, 0.0, 1.0) : 0.0;
     return res;
+}
+
+double load_ripple_share(double r, double capacitance, double esr, double frequency) {
+    if (std::isinf(frequency) && capacitance > 0.0 && r > 0.0) return esr / (esr + r);
+    return ripple_path(r, capacitance, esr, frequency).k_load;
 }
 
 Setting corner_setting(const design::Design& d, const Corner& c, const Setting& s) {

@@ -16,15 +16,9 @@ namespace {
 
 namespace u = coilsieve::units;
 
-constexpr double diode_drop_max = 3.0; // V, a generous ceiling on a diode's forward drop
-constexpr double duty_slack = 0.75;    // (1 - D) >= 0.75 (1 - Vo/Vin): drops the ideal duty ignores
-constexpr int first_intervals = 12;    // initial split of the setting range
-constexpr int max_refinements = 40;    // interval halvings around the minimum
+constexpr int first_intervals = 12;       // initial split of the setting range
+constexpr int max_refinements = 40;       // interval halvings around the minimum
 constexpr double refine_tolerance = 2e-4; // stop when the bound can rise no more than this (score)
-
-bool hysteretic(const ScreenContext& c) {
-    return c.design->control.mode == design::ControlMode::hysteretic;
-}
 
 // What an inductor brings to every corner, independent of the setting.
 struct CornerParts {
@@ -37,15 +31,6 @@ struct CornerParts {
     bool capacitor = false;
     double cap = 0.0, esr = 0.0; // F, Ω of the output capacitor when it takes ripple
 };
-
-// Share of the inductor's ripple that reaches the load at frequency f: the current divider of the
-// load resistance r and the capacitor branch ESR + 1/(jωC) (falls as f rises).
-double load_share(double r, double cap, double esr, double f) {
-    if (!(cap > 0.0) || !(r > 0.0)) return 1.0;
-    if (!std::isfinite(f)) return esr / (esr + r);
-    const double x = 1.0 / (2.0 * std::numbers::pi * f * cap);
-    return std::sqrt((esr * esr + x * x) / ((esr + r) * (esr + r) + x * x));
-}
 
 // Bounds of the figures over a setting interval [x1, x2] (a degenerate one gives a point value).
 struct Interval {
@@ -75,9 +60,7 @@ public:
             p.k = &k;
             p.l_hi = m.l0 * k.l_scale;
             p.l_lo_cap = m.inductance(std::max(0.0, peak_cap_), k.l_scale);
-            const double t_sw = k.ambient + converter::switch_temperature_rise;
-            const double ron = std::max(
-                0.0, d_.sw.on_resistance * (1.0 + d_.sw.on_resistance_tempco * (t_sw - 298.15)));
+            const double ron = converter::switch_on_resistance(d_.sw, k.ambient);
             const double rs = std::max(0.0, d_.sense_resistor);
             p.r_on_ub = ron + rs + dcr_ub;
             p.r_off_ub = rs + dcr_ub;
@@ -187,9 +170,10 @@ public:
             // at least π/2 times its fundamental (the square wave is the extreme), and the divider
             // is linear: p-p >= share(f_max)·ΔI/2. In DCM the engine takes the load ripple as
             // share·ΔI (its fundamental path, converter/steady_state.cpp).
-            const double load_di = p.capacitor ? (dcm_certain ? 1.0 : 0.5) *
-                                                     load_share(k.r, p.cap, p.esr, f_ub) * di_lb
-                                               : di_lb;
+            const double load_di =
+                p.capacitor ? (dcm_certain ? 1.0 : 0.5) *
+                                  converter::load_ripple_share(k.r, p.cap, p.esr, f_ub) * di_lb
+                            : di_lb;
             if (lim.load_ripple && load_di / i_target > *lim.load_ripple) close("load_ripple");
             iv.ripple = std::max(iv.ripple, load_di / i_ub);
             if (m_.isat > 0.0) iv.peak_ratio = std::max(iv.peak_ratio, peak_lb / m_.isat);
@@ -338,23 +322,10 @@ DiodeBound diode_bound(const ScreenContext& c, const parts::Diode& diode,
         const double w = std::max(0.0, k.weight);
         w_sum += w;
         if (k.vin <= 0.0 || k.current <= 0.0) continue;
-        // Conduction: the mean of v_f(i)·i over the off-interval is at least v_f(ī)·ī (v_f·i is
-        // convex in i). V_f is concave in temperature (SPICE diode law), so its least value over
-        // [ambient, Tj limit] is at an end.
-        const double i = current_slack * k.current;
-        const double vo = k.v0 + k.r * k.current;
-        const double off = duty_slack * std::clamp(1.0 - vo / k.vin, 0.0, 1.0);
-        const double vf = std::min(m.vf(i, k.ambient), m.vf(i, std::max(k.ambient, tj_bound)));
-        const double p_cond = off * i * std::max(0.0, vf);
-        // Leakage while the switch is on (D >= Vo/Vin) at a junction no cooler than the map
-        // Tj -> Ta + Rth·(conduction + leakage(Tj)) reaches from the ambient (it rises with Tj).
-        const double duty = std::clamp(vo / k.vin, 0.0, 1.0);
-        double tj = k.ambient, leak = 0.0;
-        for (int pass = 0; pass < 4; ++pass) {
-            leak = m.leakage(k.vin, tj) * k.vin * duty;
-            tj = std::min(tj_bound, k.ambient + m.rth_ja * (p_cond + leak));
-        }
-        loss += w * (p_cond + leak);
+        // Conduction and leakage from below (junction_floor); the mean of v_f(i)·i over the
+        // off-interval is at least v_f(ī)·ī as v_f·i is convex in i.
+        const auto j = junction_floor(k, m, tj_bound, 4);
+        loss += w * (j.conduction + j.leakage);
         // Junction charge lost each cycle (the engine's diode switching term without recovery).
         e_sw += w * m.capacitive_energy(k.vin);
     }

@@ -14,17 +14,11 @@ namespace u = coilsieve::units;
 namespace {
 
 // Allowances that keep every screen a necessary condition (see screen.hpp).
-constexpr double duty_slack = 0.75; // (1 - D) >= 0.75 (1 - D_ideal): drops the ideal duty ignores
-constexpr double loss_slack = 0.9;  // loss floors are scaled down by this
-constexpr double t_hot = 448.15;    // K (175 °C): no part runs hotter and stays feasible
+constexpr double loss_slack = 0.9; // loss floors are scaled down by this
+constexpr double t_hot = 448.15;   // K (175 °C): no part runs hotter and stays feasible
 constexpr double dcr_hot_factor = 1.0 + 0.00393 * (t_hot - 293.15); // IEC 60028 copper
-constexpr double diode_drop_max = 3.0; // V, a generous ceiling on a diode's forward drop
 
 std::string fmt(double v, u::Dimension d) { return u::format(v, d); }
-
-bool hysteretic(const ScreenContext& c) {
-    return c.design->control.mode == design::ControlMode::hysteretic;
-}
 
 // The band at a corner: a fractional band follows the corner's current (converter::corner_setting).
 double band_scale(const ScreenContext& c, const EnvelopeCorner& k) { return band_at(c, k, 1.0); }
@@ -64,6 +58,27 @@ double ripple_ceiling(const ScreenContext& c, const EnvelopeCorner& k, double l_
 }
 
 } // namespace
+
+bool hysteretic(const ScreenContext& c) {
+    return c.design->control.mode == design::ControlMode::hysteretic;
+}
+
+JunctionFloor junction_floor(const EnvelopeCorner& k, const parts::DiodeModel& m, double tj_bound,
+                             int passes) {
+    JunctionFloor j;
+    j.tj = k.ambient;
+    if (k.vin <= 0.0 || k.current <= 0.0) return j;
+    const double i = current_slack * k.current;
+    const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
+    const double vf = std::min(m.vf(i, k.ambient), m.vf(i, std::max(k.ambient, tj_bound)));
+    j.conduction = duty_slack * (1.0 - duty) * i * std::max(0.0, vf);
+    for (int pass = 0; pass < passes; ++pass) {
+        j.leakage = m.leakage(k.vin, j.tj) * k.vin * duty;
+        j.tj = k.ambient + m.rth_ja * (j.conduction + j.leakage);
+        if (j.tj > tj_bound) break;
+    }
+    return j;
+}
 
 double band_at(const ScreenContext& c, const EnvelopeCorner& k, double band) {
     if (!c.design->control.band_is_fraction || c.target <= 0.0 || k.current <= 0.0) return band;
@@ -106,9 +121,7 @@ ScreenContext make_screen_context(const design::Design& d, const optimisation::S
         const double w = std::max(0.0, k.weight);
         const double i = current_slack * k.current;
         const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
-        const double t_sw = k.ambient + converter::switch_temperature_rise;
-        const double ron =
-            std::max(0.0, d.sw.on_resistance * (1.0 + d.sw.on_resistance_tempco * (t_sw - 298.15)));
+        const double ron = converter::switch_on_resistance(d.sw, k.ambient);
         floor += w * i * i * (std::max(0.0, d.sense_resistor) + duty * ron);
         w_sum += w;
     }
@@ -227,32 +240,18 @@ std::vector<ScreenReason> screen_diode(const ScreenContext& c, const parts::Diod
                        "average current at least " + fmt(id_lb, u::Dimension::current) +
                            " exceeds " + fmt(lim.diode_current_derating, u::Dimension::ratio) +
                            " of If(AV) " + fmt(diode.if_avg, u::Dimension::current)});
-    // Junction temperature from below at every corner: conduction at least off·I·V_f,min and
-    // leakage at least I_R(Vin, Tj)·Vin·D with D >= Vo/Vin. The map Tj -> Ta + Rth·P(Tj) then rises
-    // with Tj, so its passes from the ambient stay below the engine's fixed point; one beyond the
-    // limit means no partner can keep this diode within it.
-    {
-        const double tj_bound = lim.tj_max ? std::min(m.tj_max, *lim.tj_max) : m.tj_max;
-        for (const auto& k : c.corners) {
-            if (k.vin <= 0.0 || k.current <= 0.0) continue;
-            const double i = current_slack * k.current;
-            const double vo = k.v0 + k.r * k.current;
-            const double duty = std::clamp(vo / k.vin, 0.0, 1.0);
-            const double off = duty_slack * (1.0 - duty);
-            const double vf = std::min(m.vf(i, k.ambient), m.vf(i, std::max(k.ambient, tj_bound)));
-            const double p_cond = off * i * std::max(0.0, vf);
-            double tj = k.ambient;
-            for (int pass = 0; pass < 30 && tj <= tj_bound; ++pass)
-                tj = k.ambient + m.rth_ja * (p_cond + m.leakage(k.vin, tj) * k.vin * duty);
-            if (tj > tj_bound) {
-                out.push_back({"tj_max", k.name, tj, tj_bound,
-                               "junction at least " + fmt(tj, u::Dimension::temperature) +
-                                   " at corner \"" + k.name +
-                                   "\" (conduction and reverse "
-                                   "leakage alone), above the limit " +
-                                   fmt(tj_bound, u::Dimension::temperature)});
-                break;
-            }
+    // Junction temperature from below at every corner (junction_floor): above the limit, no
+    // partner can keep this diode within it.
+    const double tj_bound = lim.tj_max ? std::min(m.tj_max, *lim.tj_max) : m.tj_max;
+    for (const auto& k : c.corners) {
+        const double tj = junction_floor(k, m, tj_bound, 30).tj;
+        if (tj > tj_bound) {
+            out.push_back({"tj_max", k.name, tj, tj_bound,
+                           "junction at least " + fmt(tj, u::Dimension::temperature) +
+                               " at corner \"" + k.name +
+                               "\" (conduction and reverse leakage alone), above the limit " +
+                               fmt(tj_bound, u::Dimension::temperature)});
+            break;
         }
     }
     if (lim.height_max && diode.height > *lim.height_max)

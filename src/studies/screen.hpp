@@ -53,9 +53,27 @@ struct ScreenContext {
                              // at the nominal corner(s) as the loss objective weighs them
 };
 
-// The average current of a feasible pair is at least this share of its target (regulation error
-// of the comparator or of the duty solve; a necessary-condition allowance, common practice).
+// Allowances shared by the screens and the bounds (engineering margins, common practice):
+// the average current of a feasible pair is at least current_slack of its target (regulation error
+// of the comparator or of the duty solve); the diode conducts for at least duty_slack·(1 − Vo/Vin)
+// of the period (the drops the ideal duty ignores); a diode drops at most diode_drop_max.
 constexpr double current_slack = 0.97;
+constexpr double duty_slack = 0.75;
+constexpr double diode_drop_max = 3.0; // V
+
+bool hysteretic(const ScreenContext& c);
+
+// A diode's heating from below at one corner: conduction at least off·I·V_f,min (V_f is concave in
+// temperature, so its least value over [ambient, tj_bound] is at an end) and reverse leakage at
+// least I_R(Vin, Tj)·Vin·D with D >= Vo/Vin. The map Tj -> Ta + Rth·P(Tj) rises with Tj, so passes
+// from the ambient stay below the engine's fixed point; they stop once Tj is above `tj_bound`.
+struct JunctionFloor {
+    double conduction = 0.0; // W
+    double leakage = 0.0;    // W, at the last junction temperature not above tj_bound
+    double tj = 0.0;         // K
+};
+JunctionFloor junction_floor(const EnvelopeCorner& k, const parts::DiodeModel& m, double tj_bound,
+                             int passes);
 
 // The design's corners for a part of this inductance tolerance (inductance scaled per corner).
 std::vector<EnvelopeCorner> part_corners(const ScreenContext& c, double tolerance);
