@@ -156,7 +156,7 @@ void apply_weight(design::Design& d, std::string_view spec) {
     else if (name == "cost") w.cost = v;
     else
         throw UsageError("--weight \"" + text + "\": unknown objective \"" + name +
-                         "\"; known: loss, size, ripple, margin, cost");
+                         "\"; known: " + design::objective_list());
 }
 
 void apply_pareto(design::Design& d, std::string_view list) {
@@ -170,7 +170,7 @@ void apply_pareto(design::Design& d, std::string_view list) {
         const auto o = design::objective_from_name(name);
         if (!o)
             throw UsageError("--pareto \"" + text + "\": unknown objective \"" + name +
-                             "\"; known: loss, size, ripple, margin, cost");
+                             "\"; known: " + design::objective_list());
         if (std::find(axes.begin(), axes.end(), *o) != axes.end())
             throw UsageError("--pareto \"" + text + "\": \"" + name + "\" is listed twice");
         axes.push_back(*o);

@@ -25,6 +25,13 @@ std::string_view objective_name(Objective o) {
     return "?";
 }
 
+std::string objective_list() {
+    std::string out;
+    for (const auto& [v, name] : objective_names)
+        out += (out.empty() ? "" : ", ") + std::string(name);
+    return out;
+}
+
 std::optional<Objective> objective_from_name(std::string_view name) {
     for (const auto& [v, n] : objective_names)
         if (n == name) return v;

@@ -76,6 +76,8 @@ enum class Objective { loss, size, ripple, margin, cost };
 // "loss", "size", "ripple", "margin", "cost".
 std::string_view objective_name(Objective o);
 std::optional<Objective> objective_from_name(std::string_view name);
+// "loss, size, ripple, margin, cost": for messages naming the known objectives.
+std::string objective_list();
 
 struct Design {
     std::string name;

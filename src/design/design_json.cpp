@@ -630,7 +630,7 @@ private:
 
     std::vector<Objective> pareto(const json& v) const {
         const std::string p = "pareto";
-        const std::string known = "loss, size, ripple, margin, cost";
+        const std::string known = objective_list();
         if (!v.is_array())
             fail(p, "expected a list of objectives such as [\"loss\", \"size\"], got " + quote(v));
         std::vector<Objective> out;
