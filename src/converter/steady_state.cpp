@@ -30,7 +30,7 @@ namespace {
 using units::Dimension;
 
 constexpr double temperature_tol = 0.05; // K, thermal fixed point
-constexpr double current_tol = 1e-6;     // relative to the target, linearisation points
+constexpr double current_tol = 1e-5;     // relative to the target, linearisation points
 constexpr int max_iterations = 50;
 constexpr double diode_runaway_margin = 100.0;    // K beyond tj_max: leakage has run away
 constexpr double inductor_runaway_margin = 300.0; // K beyond t_max: the winding has run away
@@ -498,23 +498,30 @@ double core_loss(const parts::InductorModel& l, const Wave& w) {
     return l.core_loss(ripple, 1.0 / tp, w.t_on / tp);
 }
 
-// Step of a scalar fixed point T <- g(T) from its last two updates. When they shrink
-// geometrically with one sign (ratio rho in (0, 0.9)) the remaining steps sum to d/(1 − rho)
-// (Aitken's extrapolation); otherwise a plain or damped step.
-// Only for steps well above the tolerance (small ones are noise from the other states), and
-// never twice in a row (the step after an extrapolation is not part of the geometric sequence).
-double thermal_step(double d, double& d_prev, double omega) {
-    double step = omega * d;
-    if (d_prev != 0.0 && std::abs(d) > 20.0 * temperature_tol) {
-        const double rho = d / d_prev;
-        if (rho > 0.05 && rho < 0.9) {
-            d_prev = 0.0;
-            return d / (1.0 - rho);
+// Steps of a scalar fixed point x <- g(x). When the updates shrink geometrically with one sign
+// (ratio rho in (0.05, 0.95)) the remaining steps sum to ω·d/(1 − rho) (Aitken's extrapolation;
+// with damping ω the ratio is 1 − ω·(1 − g')); otherwise a plain or damped step. Large steps
+// extrapolate on one ratio; steps nearer the tolerance, where the other states' noise shows, only
+// when two successive ratios agree. Never twice in a row (the step after an extrapolation is not
+// part of the geometric sequence).
+struct FixedPointSteps {
+    double big = 0.0;   // a step above this extrapolates on one ratio
+    double small = 0.0; // a step above this extrapolates on two agreeing ratios
+    double d_prev = 0.0, rho_prev = 0.0;
+
+    double step(double d, double omega) {
+        const double rho = d_prev != 0.0 ? d / d_prev : 0.0;
+        const bool geometric = rho > 0.05 && rho < 0.95;
+        const bool agreed = rho_prev > 0.0 && std::abs(rho - rho_prev) <= 0.15 * rho;
+        if (geometric && (std::abs(d) > big || (std::abs(d) > small && agreed))) {
+            d_prev = rho_prev = 0.0;
+            return omega * d / (1.0 - rho);
         }
+        rho_prev = rho;
+        d_prev = d;
+        return omega * d;
     }
-    d_prev = d;
-    return step;
-}
+};
 
 } // namespace
 
@@ -594,8 +601,11 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
         }
     }
     double duty_prev = -1.0;
-    double omega = 1.0, last_dl = 0.0, last_dj = 0.0;
+    double omega = 1.0;
+    FixedPointSteps steps_l{20.0 * temperature_tol, 2.0 * temperature_tol};
+    FixedPointSteps steps_j = steps_l;
     const double tol_i = current_tol * target;
+    FixedPointSteps steps_q{20.0 * tol_i * period, 2.0 * tol_i * period}; // PWM charge correction
 
     // Quantities of the last electrical solve, used after the loop.
     Wave w;
@@ -702,8 +712,9 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
             on.l = pl.l_on;
             off.l = pl.l_off;
             // The charge correction enters relaxed (half steps): fed back at once it makes the
-            // outer fixed point oscillate deep in the roll-off.
-            dq_used = 0.5 * (dq_used + pl.dq_on + pl.dq_off);
+            // outer fixed point oscillate deep in the roll-off. Half steps shrink by half each
+            // pass, so the extrapolation ends the geometric tail once it shows.
+            dq_used += steps_q.step(0.5 * (pl.dq_on + pl.dq_off - dq_used), 1.0);
             const double share_on =
                 pl.dq_on + pl.dq_off != 0.0 ? pl.dq_on / (pl.dq_on + pl.dq_off) : 0.5;
             const double target_lin = target - dq_used / period;
@@ -850,10 +861,11 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
             return std::abs(step) > temperature_tol && step * step_prev < 0.0 &&
                    std::abs(step) > 0.5 * std::abs(step_prev);
         };
-        if (overshoots(dl, last_dl) || overshoots(dj, last_dj)) omega = std::max(0.25, 0.5 * omega);
+        if (overshoots(dl, steps_l.d_prev) || overshoots(dj, steps_j.d_prev))
+            omega = std::max(0.25, 0.5 * omega);
         // Losses are never negative: neither part can sit below ambient.
-        t_l = std::max(amb, t_l + thermal_step(dl, last_dl, omega));
-        tj = std::max(amb, tj + thermal_step(dj, last_dj, omega));
+        t_l = std::max(amb, t_l + steps_l.step(dl, omega));
+        tj = std::max(amb, tj + steps_j.step(dj, omega));
         if (!std::isfinite(t_l) || !std::isfinite(tj)) break;
         lin_lo = w.i_valley;
         lin_hi = w.i_peak;
