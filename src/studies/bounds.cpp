@@ -107,8 +107,17 @@ public:
                 b2 = band_at(c_, k, x2);
             }
             for (int pass = 0; pass < 2; ++pass) {
-                if (hysteretic(c_))
+                if (hysteretic(c_)) {
                     peak_ub = std::min(peak_ub, i_target + b2 / 2.0 + td * von_ub / l_lo);
+                } else {
+                    // PWM: ΔI <= T·g_ub/L_lo (the flux swing, as below); in CCM the valley is
+                    // below the mean, and in DCM the charge I·T >= L_lo·peak²/(2·g_ub) gives
+                    // peak <= sqrt(2·I·ΔI) <= I + ΔI: either way peak <= I + ΔI.
+                    const double voff =
+                        k.v0 + k.r * peak_ub + diode_drop_max + peak_ub * p.r_off_ub;
+                    peak_ub = std::min(peak_ub, i_target / current_slack +
+                                                    volt_second_rate(von_ub, voff) / (l_lo * x1));
+                }
                 l_lo = std::max(l_lo, m_.inductance(peak_ub, k.l_scale));
             }
             voff_ub = k.v0 + k.r * peak_ub + diode_drop_max + peak_ub * p.r_off_ub;

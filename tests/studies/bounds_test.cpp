@@ -164,3 +164,23 @@ TEST_P(Bounds, StretchBoundsHoldAtEveryFeasibleSetting) {
 
 INSTANTIATE_TEST_SUITE_P(Examples, Bounds,
                          ::testing::Values("reading-lamp.json", "two-cell-charger.json"));
+
+// With PWM the peak is at most I + ΔI (CCM: the valley is below the mean; DCM: the charge
+// I·T >= L·peak²/(2g), Erickson & Maksimović 2nd ed. ch. 5), not the saturation ceiling, so the
+// on-voltage floor keeps its resistive drops small and a few-µH inductor is seen to break the
+// charger's load-ripple limit at its end-of-charge current for every frequency in range.
+TEST(BoundsPwm, SmallInductorIsClosedByLoadRipple) {
+    Case s("two-cell-charger.json");
+    const auto& k = starter();
+    int found = 0;
+    for (const auto& l : k.inductors) {
+        if (l.id != "GEN-L-MCP-10.5x10x5-1u2" && l.id != "GEN-L-MCP-12.5x12.5x6-2u2") continue;
+        ++found;
+        const auto m = parts::make_model(l);
+        ASSERT_TRUE(studies::screen_inductor(s.ctx, l, m).empty()) << l.id;
+        const auto b = studies::inductor_bound(s.ctx, l, m, s.scales);
+        ASSERT_TRUE(b.window.has_value()) << l.id << " should be closed by the window screen";
+        EXPECT_EQ(b.window->limit, "load_ripple") << l.id;
+    }
+    EXPECT_EQ(found, 2) << "the starter catalog no longer has the parts this test names";
+}
