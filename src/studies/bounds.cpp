@@ -19,6 +19,7 @@ namespace u = coilsieve::units;
 constexpr int first_intervals = 12;       // initial split of the setting range
 constexpr int max_refinements = 40;       // interval halvings around the minimum
 constexpr double refine_tolerance = 2e-4; // stop when the bound can rise no more than this (score)
+constexpr double ramp_shape_slack = 0.9; // PWM peak above the mean: 90 % of ΔI/2 (common practice)
 
 // What an inductor brings to every corner, independent of the setting.
 struct CornerParts {
@@ -163,7 +164,10 @@ public:
                 di_lb = std::min(di_ccm, std::sqrt(2.0 * i_lb * di_ccm));
                 dcm_certain = di_ccm > 2.0 * i_ub;
                 const double di_ub = g_ub / (l_lo * x1);
-                peak_lb = i_lb;
+                // The mean of near-linear ramps sits mid-way between valley and peak (CCM), and
+                // below peak/2 in DCM, so peak >= I + ΔI/2; ramp_shape_slack allows for the
+                // curvature of R–L ramps and L(i).
+                peak_lb = i_lb + 0.5 * ramp_shape_slack * di_lb;
                 valley_lb = std::max(0.0, i_lb - di_ub);
                 f_lb = x1;
                 f_ub = x2;
