@@ -18,6 +18,7 @@ namespace u = coilsieve::units;
 
 constexpr int first_intervals = 12;       // initial split of the setting range
 constexpr int max_refinements = 40;       // interval halvings around the minimum
+constexpr int edge_refinements = 6;       // halvings of a stretch at the edge of the window
 constexpr double refine_tolerance = 2e-4; // stop when the bound can rise no more than this (score)
 constexpr double ramp_shape_slack = 0.9; // PWM peak above the mean: 90 % of ΔI/2 (common practice)
 
@@ -49,8 +50,13 @@ struct Interval {
 class InductorBounder {
 public:
     InductorBounder(const ScreenContext& c, const parts::Inductor& l, const parts::InductorModel& m,
-                    const optimisation::Scales& s)
-        : c_(c), d_(*c.design), l_(l), m_(m), s_(s), corners_(part_corners(c, l.tolerance)) {
+                    const optimisation::Scales& s, const parts::DiodeModel* diode = nullptr)
+        : c_(c), d_(*c.design), l_(l), m_(m), s_(s), diode_(diode),
+          corners_(part_corners(c, l.tolerance)) {
+        if (diode_ != nullptr) {
+            const auto& lim = d_.limits;
+            tj_bound_ = lim.tj_max ? std::min(diode_->tj_max, *lim.tj_max) : diode_->tj_max;
+        }
         const auto& lim = d_.limits;
         peak_cap_ = lim.isat_derating * m.isat;
         t_l_bound_ = lim.t_inductor_max ? std::min(m.t_max, *lim.t_inductor_max) : m.t_max;
@@ -71,6 +77,17 @@ public:
             p.esr = d_.output_capacitor ? std::max(0.0, d_.output_capacitor->esr) : 0.0;
             parts_.push_back(p);
         }
+    }
+
+    // The diode's forward drop at current i at most, over the junction temperatures a feasible
+    // pair can have (ambient to the junction limit); the generous allowance without a diode.
+    // V_f is concave in temperature (screen.hpp), so it lies below its tangent at the ambient,
+    // whose slope is at most the backward difference there.
+    double drop_max(double i, double ambient) const {
+        if (diode_ == nullptr) return diode_drop_max;
+        const double v = diode_->vf(i, ambient);
+        const double slope = std::max(0.0, v - diode_->vf(i, ambient - 1.0));
+        return std::min(diode_drop_max, v + slope * std::max(0.0, tj_bound_ - ambient));
     }
 
     double value_at(double u) const {
@@ -115,13 +132,13 @@ public:
                     // below the mean, and in DCM the charge I·T >= L_lo·peak²/(2·g_ub) gives
                     // peak <= sqrt(2·I·ΔI) <= I + ΔI: either way peak <= I + ΔI.
                     const double voff =
-                        k.v0 + k.r * peak_ub + diode_drop_max + peak_ub * p.r_off_ub;
+                        k.v0 + k.r * peak_ub + drop_max(peak_ub, k.ambient) + peak_ub * p.r_off_ub;
                     peak_ub = std::min(peak_ub, i_target / current_slack +
                                                     volt_second_rate(von_ub, voff) / (l_lo * x1));
                 }
                 l_lo = std::max(l_lo, m_.inductance(peak_ub, k.l_scale));
             }
-            voff_ub = k.v0 + k.r * peak_ub + diode_drop_max + peak_ub * p.r_off_ub;
+            voff_ub = k.v0 + k.r * peak_ub + drop_max(peak_ub, k.ambient) + peak_ub * p.r_off_ub;
             const double von_lb =
                 std::max(0.0, k.vin - (k.v0 + k.r * peak_ub) - peak_ub * p.r_on_ub);
             const double g_ub = volt_second_rate(von_ub, voff_ub);
@@ -225,8 +242,6 @@ public:
     }
 
     InductorBound run() const {
-        InductorBound b;
-        b.size = l_.volume();
         const auto& r = c_.range;
         std::vector<std::pair<double, double>> spans; // in u
         std::vector<Interval> ivs;
@@ -257,7 +272,45 @@ public:
                 spans.emplace_back(um, u2);
                 ivs.push_back(evaluate(xm, value_at(u2)));
             }
+            // Each limit is bounded at the stretch's better end, so a wide stretch can pass two
+            // limits that no single setting in it meets together (a frequency ceiling and a
+            // ripple ceiling, say). Halve a feasible stretch while only one half stays feasible.
+            for (std::size_t i = 0; i < ivs.size(); ++i) {
+                for (int n = 0; n < edge_refinements && ivs[i].feasible; ++n) {
+                    const auto [u1, u2] = spans[i];
+                    const double um = 0.5 * (u1 + u2);
+                    Interval lo = evaluate(value_at(u1), value_at(um));
+                    Interval hi = evaluate(value_at(um), value_at(u2));
+                    if (lo.feasible && hi.feasible) break;
+                    if (lo.feasible) {
+                        spans[i] = {u1, um};
+                        ivs[i] = lo;
+                    } else if (hi.feasible) {
+                        spans[i] = {um, u2};
+                        ivs[i] = hi;
+                    } else {
+                        ivs[i].feasible = false;
+                        ivs[i].closed_by = lo.closed_by;
+                    }
+                }
+            }
         }
+        return summarise(ivs, "any diode");
+    }
+
+    // The given stretches again (with this bounder's diode): no new refinement.
+    InductorBound rebound(const std::vector<SettingStretch>& stretches) const {
+        std::vector<Interval> ivs;
+        ivs.reserve(stretches.size());
+        for (const auto& st : stretches) ivs.push_back(evaluate(st.x1, st.x2));
+        return summarise(ivs, "this diode");
+    }
+
+private:
+    InductorBound summarise(const std::vector<Interval>& ivs, const char* partner) const {
+        InductorBound b;
+        b.size = l_.volume();
+        const auto& r = c_.range;
         bool any = false;
         std::map<std::string, int> closed;
         for (const auto& iv : ivs) {
@@ -295,21 +348,23 @@ public:
             }
             const bool band = hysteretic(c_);
             const auto dim = band ? u::Dimension::current : u::Dimension::frequency;
-            b.window = ScreenReason{
-                limit.empty() ? std::string("setting_window") : limit, "", r.lo, r.hi,
-                std::string("no ") + (band ? "band" : "frequency") + " from " +
-                    u::format(r.lo, dim) + " to " + u::format(r.hi, dim) +
-                    " can meet the limits at every corner with any diode (closed by " + list + ")"};
+            b.window =
+                ScreenReason{limit.empty() ? std::string("setting_window") : limit, "", r.lo, r.hi,
+                             std::string("no ") + (band ? "band" : "frequency") + " from " +
+                                 u::format(r.lo, dim) + " to " + u::format(r.hi, dim) +
+                                 " can meet the limits at every corner with " + partner +
+                                 " (closed by " + list + ")"};
         }
         return b;
     }
 
-private:
     const ScreenContext& c_;
     const design::Design& d_;
     const parts::Inductor& l_;
     const parts::InductorModel& m_;
     const optimisation::Scales& s_;
+    const parts::DiodeModel* diode_ = nullptr;
+    double tj_bound_ = 0.0;
     std::vector<EnvelopeCorner> corners_;
     std::vector<CornerParts> parts_;
     double peak_cap_ = 0.0;
@@ -321,6 +376,13 @@ private:
 InductorBound inductor_bound(const ScreenContext& c, const parts::Inductor& l,
                              const parts::InductorModel& m, const optimisation::Scales& s) {
     return InductorBounder(c, l, m, s).run();
+}
+
+InductorBound pair_inductor_bound(const ScreenContext& c, const parts::Inductor& l,
+                                  const parts::InductorModel& m, const InductorBound& b,
+                                  const parts::DiodeModel& diode, const optimisation::Scales& s) {
+    if (!b.feasible || b.stretches.empty()) return b;
+    return InductorBounder(c, l, m, s, &diode).rebound(b.stretches);
 }
 
 DiodeBound diode_bound(const ScreenContext& c, const parts::Diode& diode,

@@ -60,6 +60,12 @@ struct DiodeBound {
 
 InductorBound inductor_bound(const ScreenContext& c, const parts::Inductor& l,
                              const parts::InductorModel& m, const optimisation::Scales& s);
+// The inductor's stretches bounded again with this diode's forward drop in place of the 3 V
+// allowance (tighter frequency bounds, so more settings closed and higher switching loss):
+// `feasible` false when no setting in range can meet the limits with this pair.
+InductorBound pair_inductor_bound(const ScreenContext& c, const parts::Inductor& l,
+                                  const parts::InductorModel& m, const InductorBound& b,
+                                  const parts::DiodeModel& diode, const optimisation::Scales& s);
 DiodeBound diode_bound(const ScreenContext& c, const parts::Diode& diode,
                        const parts::DiodeModel& m, const optimisation::Scales& s);
 

@@ -195,18 +195,20 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
     struct LPrep {
         std::vector<ScreenReason> reasons;
         InductorBound bound;
+        std::optional<parts::InductorModel> model;
     };
     struct DPrep {
         std::vector<ScreenReason> reasons;
         DiodeBound bound;
         parts::Diode prepared; // with the fitted SPICE forward parameters: no refit per call
+        std::optional<parts::DiodeModel> model;
     };
     std::vector<LPrep> lprep(res.inductors_used.size());
     std::vector<DPrep> dprep(res.diodes_used.size());
     parallel_for(lprep.size(), threads, [&](std::size_t k) {
         const auto& part = inductors[res.inductors_used[k]];
         try {
-            const auto m = parts::make_model(part);
+            const auto& m = lprep[k].model.emplace(parts::make_model(part));
             lprep[k].reasons = screen_inductor(ctx, part, m);
             if (lprep[k].reasons.empty()) {
                 lprep[k].bound = inductor_bound(ctx, part, m, res.scales);
@@ -219,7 +221,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
     parallel_for(dprep.size(), threads, [&](std::size_t k) {
         const auto& part = diodes[res.diodes_used[k]];
         try {
-            const auto m = parts::make_model(part);
+            const auto& m = dprep[k].model.emplace(parts::make_model(part));
             dprep[k].prepared = part;
             dprep[k].prepared.spice = m.fwd;
             dprep[k].reasons = screen_diode(ctx, part, m);
@@ -332,8 +334,25 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         const auto& di = diodes[pr.diode];
         const auto& prepared = dprep[dprep_of[pr.diode]].prepared;
         const auto scorer = optimisation::make_scorer(l, di, w, scales);
-        const auto& lb = lprep[job.lk].bound;
         const auto& db = dprep[job.dk].bound;
+        // The inductor's bound with this diode's own forward drop: tighter, and it may show that
+        // no setting can meet the limits with this pair.
+        const InductorBound lb = pair_inductor_bound(
+            ctx, l, *lprep[job.lk].model, lprep[job.lk].bound, *dprep[job.dk].model, scales);
+        if (!options.exhaustive) {
+            if (!lb.feasible) {
+                job.skipped = true;
+                return;
+            }
+            // Skipped when it can neither enter the top N nor the Pareto set.
+            job.optimistic.loss = std::max(job.optimistic.loss, pair_optimistic(ctx, lb, db).loss);
+            const bool can_top =
+                pair_score_bound(ctx, lb, db, scales) + job.cost_term <= threshold();
+            if (!can_top && dominated_by_front(pareto_vector(job.optimistic, axes))) {
+                job.skipped = true;
+                return;
+            }
+        }
         // The tuner also starts from where the bound is least, in every mode (same answer).
         std::vector<double> hints;
         if (const auto x = pair_best_setting(ctx, lb, db, scales)) hints.push_back(*x);

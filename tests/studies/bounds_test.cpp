@@ -124,7 +124,7 @@ TEST_P(Bounds, StretchBoundsHoldAtEveryFeasibleSetting) {
     Case s(GetParam());
     const auto& k = starter();
     const auto& w = s.d.weights;
-    std::size_t feasible_points = 0;
+    std::size_t feasible_points = 0, pair_closed_points = 0;
     for (std::size_t i : sample(k.inductors, 150)) {
         const auto& l = k.inductors[i];
         const auto m = parts::make_model(l);
@@ -142,14 +142,27 @@ TEST_P(Bounds, StretchBoundsHoldAtEveryFeasibleSetting) {
                                     : 0.0;
             const double pair_bound = studies::pair_score_bound(s.ctx, lb, db, s.scales) + cost;
             const double loss_bound = studies::pair_optimistic(s.ctx, lb, db).loss;
+            // The same stretches bounded again with this diode's forward drop.
+            const auto pb = studies::pair_inductor_bound(s.ctx, l, m, lb, dm, s.scales);
+            const double pb_score = studies::pair_score_bound(s.ctx, pb, db, s.scales) + cost;
+            const double pb_loss = studies::pair_optimistic(s.ctx, pb, db).loss;
             for (double x : s.scan) {
                 const auto setting = optimisation::make_setting(s.range, s.base, x);
                 const auto p = scorer(setting, converter::evaluate_pair(s.d, l, di, setting));
+                const std::string at = l.id + " with " + di.id + " at " + std::to_string(x);
+                if (!pb.feasible) {
+                    ++pair_closed_points;
+                    EXPECT_FALSE(p.evaluation.feasible) << "pair window closed, yet " << at;
+                }
                 if (!p.evaluation.feasible) continue;
                 ++feasible_points;
-                const std::string at = l.id + " with " + di.id + " at " + std::to_string(x);
                 EXPECT_LE(pair_bound, p.score) << at;
                 EXPECT_LE(loss_bound, p.objectives.loss) << at;
+                EXPECT_LE(pb_score, p.score) << at;
+                EXPECT_LE(pb_loss, p.objectives.loss) << at;
+                EXPECT_LE(studies::pair_loss_within(s.ctx, pb, db, s.scales, p.score - cost),
+                          p.objectives.loss)
+                    << at;
                 EXPECT_LE(lb.ripple, p.objectives.ripple + 1e-12) << at;
                 EXPECT_GE(lb.margin, p.objectives.margin - 1e-12) << at;
                 // Capped at this point's own score, the region still holds this point.
@@ -160,6 +173,7 @@ TEST_P(Bounds, StretchBoundsHoldAtEveryFeasibleSetting) {
         }
     }
     EXPECT_GT(feasible_points, 100u) << "too few feasible points to check the bounds";
+    RecordProperty("pair_closed_points", static_cast<int>(pair_closed_points));
 }
 
 INSTANTIATE_TEST_SUITE_P(Examples, Bounds,
