@@ -80,6 +80,27 @@ JunctionFloor junction_floor(const EnvelopeCorner& k, const parts::DiodeModel& m
     return j;
 }
 
+bool junction_can_settle(const EnvelopeCorner& k, const parts::DiodeModel& m, double tj_bound) {
+    if (k.vin <= 0.0 || k.current <= 0.0 || !(tj_bound > k.ambient)) return true;
+    constexpr int cells = 64;
+    const double i = current_slack * k.current;
+    const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
+    const double off = duty_slack * (1.0 - duty) * i;
+    auto conduction = [&](double t) { return off * std::max(0.0, m.vf(i, t)); };
+    auto leakage = [&](double t) { return m.leakage(k.vin, t) * k.vin * duty; };
+    const double h = (tj_bound - k.ambient) / cells;
+    double t1 = k.ambient, p1 = conduction(t1);
+    for (int n = 1; n <= cells; ++n) {
+        const double t2 = n == cells ? tj_bound : k.ambient + h * n;
+        const double p2 = conduction(t2);
+        const double heat = k.ambient + m.rth_ja * (std::min(p1, p2) + leakage(t1));
+        if (heat <= t2) return true; // a balance may exist in this cell
+        t1 = t2;
+        p1 = p2;
+    }
+    return false;
+}
+
 double band_at(const ScreenContext& c, const EnvelopeCorner& k, double band) {
     if (!c.design->control.band_is_fraction || c.target <= 0.0 || k.current <= 0.0) return band;
     return band * k.current / c.target;
@@ -251,6 +272,16 @@ std::vector<ScreenReason> screen_diode(const ScreenContext& c, const parts::Diod
                                " at corner \"" + k.name +
                                "\" (conduction and reverse leakage alone), above the limit " +
                                fmt(tj_bound, u::Dimension::temperature)});
+            break;
+        }
+        if (!junction_can_settle(k, m, tj_bound)) {
+            out.push_back({"tj_max", k.name, tj_bound, tj_bound,
+                           "at corner \"" + k.name + "\" conduction and reverse leakage at " +
+                               fmt(k.vin, u::Dimension::voltage) +
+                               " heat the junction faster than it sheds heat at every temperature "
+                               "up to the limit " +
+                               fmt(tj_bound, u::Dimension::temperature) +
+                               ": it runs away or passes the limit with any inductor"});
             break;
         }
     }

@@ -74,6 +74,13 @@ struct JunctionFloor {
 };
 JunctionFloor junction_floor(const EnvelopeCorner& k, const parts::DiodeModel& m, double tj_bound,
                              int passes);
+// Whether the junction can balance at all: false when, on every cell of [ambient, tj_bound], the
+// heating from below exceeds the temperature (T < Ta + Rth·(conduction + leakage) throughout), so
+// the fixed point the engine seeks lies above the limit or does not exist (runaway). Each cell is
+// bounded by monotone pieces: leakage at its cold end, conduction at its lower end value (V_f is
+// concave in T), the temperature at its hot end. This sees runaway that passes from the ambient
+// miss, because there V_f may be taken at each temperature rather than at its least.
+bool junction_can_settle(const EnvelopeCorner& k, const parts::DiodeModel& m, double tj_bound);
 
 // The design's corners for a part of this inductance tolerance (inductance scaled per corner).
 std::vector<EnvelopeCorner> part_corners(const ScreenContext& c, double tolerance);

@@ -1,0 +1,94 @@
+// The junction balance screen (studies::junction_can_settle) against a dense scan of the same
+// lower-bound heating map h(T) = Ta + Rth·(conduction(T) + leakage(T)) − T: the screen may only say
+// "no balance" where the scan finds h > 0 everywhere on [Ta, Tj limit], and it should say so close
+// to where the scan's answer changes. The diode is a generic 2 A Schottky (SPICE parameters of the
+// usual size, from memory); leakage doubles every 10 K (common practice).
+#include "studies/screen.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <gtest/gtest.h>
+
+using namespace coilsieve;
+
+namespace {
+
+parts::DiodeModel schottky(double ir_ref) {
+    parts::DiodeModel m;
+    m.fwd.is = 2e-6;
+    m.fwd.n = 1.05;
+    m.fwd.rs = 0.05;
+    m.fwd.eg = 0.69; // Schottky barrier (ngspice EG for Schottky models, from memory)
+    m.fwd.xti = 2.0;
+    m.ir_ref = ir_ref;
+    m.vr_ref = 20.0;
+    m.rth_ja = 75.0;
+    m.tj_max = 398.15;
+    return m;
+}
+
+studies::EnvelopeCorner corner() {
+    studies::EnvelopeCorner k;
+    k.name = "hot";
+    k.vin = 14.0;
+    k.v0 = 7.0;
+    k.r = 0.1;
+    k.current = 2.0;
+    k.ambient = 318.15;
+    k.nominal = true;
+    k.weight = 1.0;
+    return k;
+}
+
+// The same map on 20,000 points: does it reach T somewhere below the limit?
+bool scan_settles(const studies::EnvelopeCorner& k, const parts::DiodeModel& m, double tj_bound) {
+    const double i = studies::current_slack * k.current;
+    const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
+    for (int n = 0; n <= 20000; ++n) {
+        const double t = k.ambient + (tj_bound - k.ambient) * n / 20000.0;
+        const double heat =
+            k.ambient + m.rth_ja * (studies::duty_slack * (1.0 - duty) * i * m.vf(i, t) +
+                                    m.leakage(k.vin, t) * k.vin * duty);
+        if (heat <= t) return true;
+    }
+    return false;
+}
+
+} // namespace
+
+TEST(JunctionBalance, NeverClaimsRunawayWhereABalanceExistsAndFindsItNearTheEdge) {
+    const auto k = corner();
+    const double tj_bound = 398.15;
+    // The scan's edge: the leakage at which the balance below the limit disappears (bisection on
+    // a log scale; the map rises with the leakage).
+    double lo = 1e-6, hi = 1.0;
+    ASSERT_TRUE(scan_settles(k, schottky(lo), tj_bound));
+    ASSERT_FALSE(scan_settles(k, schottky(hi), tj_bound));
+    for (int n = 0; n < 40; ++n) {
+        const double mid = std::sqrt(lo * hi);
+        (scan_settles(k, schottky(mid), tj_bound) ? lo : hi) = mid;
+    }
+    // Just inside the edge a balance exists: the screen must not remove the diode.
+    EXPECT_TRUE(studies::junction_can_settle(k, schottky(lo * 0.999), tj_bound));
+    // The cell bound is conservative by at most one 1.25 K cell: 10 % past the edge it screens.
+    EXPECT_FALSE(studies::junction_can_settle(k, schottky(hi * 1.1), tj_bound));
+    // And far from it, both ways.
+    EXPECT_TRUE(studies::junction_can_settle(k, schottky(lo * 1e-2), tj_bound));
+    EXPECT_FALSE(studies::junction_can_settle(k, schottky(hi * 1e2), tj_bound));
+}
+
+TEST(JunctionBalance, ConductionAloneBalancesWhereTheHeatingLineMeetsTheTemperature) {
+    // No leakage: V_f falls with temperature, so the single balance T* = Ta + Rth·P(T*) lies
+    // between Ta + Rth·P(Tlimit) and Ta + Rth·P(Ta). A limit 2 K above the upper end must admit
+    // it; a limit 2 K below the lower end must not.
+    const auto k = corner();
+    const auto m = schottky(0.0);
+    const double i = studies::current_slack * k.current;
+    const double duty = (k.v0 + k.r * k.current) / k.vin;
+    auto power = [&](double t) { return studies::duty_slack * (1.0 - duty) * i * m.vf(i, t); };
+    const double upper = k.ambient + m.rth_ja * power(k.ambient);
+    EXPECT_TRUE(studies::junction_can_settle(k, m, upper + 2.0));
+    const double lower = k.ambient + m.rth_ja * power(upper + 2.0);
+    ASSERT_GT(lower - 2.0, k.ambient);
+    EXPECT_FALSE(studies::junction_can_settle(k, m, lower - 2.0));
+}
