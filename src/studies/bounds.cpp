@@ -90,6 +90,26 @@ public:
         return std::min(diode_drop_max, v + slope * std::max(0.0, tj_bound_ - ambient));
     }
 
+    // With a diode and CCM certain (the valley above zero), the diode conducts for the whole off
+    // interval, and volt-second balance gives t_off/T = V_on/(V_on + V_off) >= von_lb/(von_lb +
+    // voff_ub) (Erickson & Maksimović 2nd ed. ch. 2). What this adds to the diode's conduction
+    // floor, which assumes only duty_slack·(1 − Vo/Vin) (diode_bound, junction_floor): same
+    // current and V_f, larger share of the period.
+    double diode_excess(const EnvelopeCorner& k, double valley_lb, double von_lb,
+                        double voff_ub) const {
+        if (diode_ == nullptr || !(valley_lb > 0.0) || !(von_lb > 0.0) || k.vin <= 0.0 ||
+            k.current <= 0.0)
+            return 0.0;
+        const double off = von_lb / (von_lb + voff_ub);
+        const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
+        const double floor_off = duty_slack * (1.0 - duty);
+        if (!(off > floor_off)) return 0.0;
+        const double i = current_slack * k.current;
+        const double vf =
+            std::min(diode_->vf(i, k.ambient), diode_->vf(i, std::max(k.ambient, tj_bound_)));
+        return (off - floor_off) * i * std::max(0.0, vf);
+    }
+
     double value_at(double u) const {
         const auto& r = c_.range;
         u = std::clamp(u, 0.0, 1.0);
@@ -223,7 +243,8 @@ public:
                                 sw.gate_charge * sw.drive_voltage +
                                 0.5 * sw.output_capacitance * k.vin * k.vin;
             const double w = std::max(0.0, k.weight);
-            loss_sum += w * (copper + core + e_sw * f_lb);
+            loss_sum +=
+                w * (copper + core + e_sw * f_lb + diode_excess(k, valley_lb, von_lb, voff_ub));
             f_sum += w * f_lb;
             fv_sum += w * f_lb * valley_lb * k.vin;
             w_sum += w;
