@@ -189,6 +189,15 @@ public:
                 i_lb = current_slack *
                        std::max(0.0, i_target + skew_lo / (skew_lo < 0.0 ? l_lo : l_hi));
                 i_ub = (i_target + std::max(0.0, skew_hi) / l_lo) / current_slack;
+                // In CCM each ramp is monotone with time density dt/di = L(i)/|v_L(i)| within
+                // known limits, so its mean is at least valley + h·ΔI (ramp_mean_share); the
+                // cycle's mean is a blend of its two ramps' means.
+                if (valley_min > 0.0 && von_ub > 0.0 && voff_ub > 0.0 && l_hi > 0.0) {
+                    const double r_on = l_lo * von_lb / (l_hi * von_ub);
+                    const double r_off = l_lo * voff_lb / (l_hi * voff_ub);
+                    const double h = ramp_mean_share(std::min(r_on, r_off));
+                    i_lb = std::max(i_lb, (1.0 - h) * valley_lb + h * peak_lb);
+                }
             } else {
                 // PWM: the flux swing per cycle is T·g(Von, Voff) in CCM (volt-second balance,
                 // Erickson & Maksimović 2nd ed. ch. 2) and ΔI >= ΔΨ/L_hi. In DCM the flux balance

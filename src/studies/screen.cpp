@@ -101,6 +101,11 @@ bool junction_can_settle(const EnvelopeCorner& k, const parts::DiodeModel& m, do
     return false;
 }
 
+double ramp_mean_share(double density_ratio) {
+    const double q = std::sqrt(std::clamp(density_ratio, 0.0, 1.0));
+    return q / (1.0 + q);
+}
+
 double band_at(const ScreenContext& c, const EnvelopeCorner& k, double band) {
     if (!c.design->control.band_is_fraction || c.target <= 0.0 || k.current <= 0.0) return band;
     return band * k.current / c.target;

@@ -82,6 +82,11 @@ JunctionFloor junction_floor(const EnvelopeCorner& k, const parts::DiodeModel& m
 // miss, because there V_f may be taken at each temperature rather than at its least.
 bool junction_can_settle(const EnvelopeCorner& k, const parts::DiodeModel& m, double tj_bound);
 
+// The least mean a monotone ramp from a to b can have when its time density dt/di stays within
+// [ρ_min, ρ_max]: a + h·(b − a), h = √r/(1 + √r) with r = ρ_min/ρ_max in [0, 1] (the density
+// at ρ_max below the mean and ρ_min above it; h = 1/2 for a straight ramp).
+double ramp_mean_share(double density_ratio);
+
 // The design's corners for a part of this inductance tolerance (inductance scaled per corner).
 std::vector<EnvelopeCorner> part_corners(const ScreenContext& c, double tolerance);
 // The band (A) at a corner for a setting `band` at the target current (a fractional band follows

@@ -7,6 +7,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdint>
 #include <gtest/gtest.h>
 
 using namespace coilsieve;
@@ -91,4 +92,35 @@ TEST(JunctionBalance, ConductionAloneBalancesWhereTheHeatingLineMeetsTheTemperat
     const double lower = k.ambient + m.rth_ja * power(upper + 2.0);
     ASSERT_GT(lower - 2.0, k.ambient);
     EXPECT_FALSE(studies::junction_can_settle(k, m, lower - 2.0));
+}
+
+// The least-mean lemma behind ramp_mean_share, checked by construction: the two-level density it
+// names reaches the share exactly, and no density within the same limits (random piecewise
+// constant ones on 64 steps) has a lower mean.
+TEST(RampMean, TwoLevelDensityIsTheLeastMean) {
+    EXPECT_DOUBLE_EQ(studies::ramp_mean_share(1.0), 0.5); // a straight ramp: the midpoint
+    EXPECT_DOUBLE_EQ(studies::ramp_mean_share(0.0), 0.0);
+    std::uint32_t state = 12345u; // a small LCG: deterministic, no global state
+    auto uniform = [&] {
+        state = state * 1664525u + 1013904223u;
+        return static_cast<double>(state >> 8) / static_cast<double>(1u << 24);
+    };
+    for (double r : {0.05, 0.3, 0.6, 0.8, 0.95}) {
+        const double h = studies::ramp_mean_share(r);
+        // The named density: ρ_max = 1 on [0, h], ρ_min = r on [h, 1].
+        const double mass = h + r * (1.0 - h);
+        const double moment = h * h / 2.0 + r * (1.0 - h * h) / 2.0;
+        EXPECT_NEAR(moment / mass, h, 1e-12) << "r " << r;
+        constexpr int steps = 64;
+        for (int trial = 0; trial < 2000; ++trial) {
+            double m0 = 0.0, m1 = 0.0;
+            for (int n = 0; n < steps; ++n) {
+                const double rho = r + (1.0 - r) * (uniform() < 0.5 ? 0.0 : 1.0) * uniform();
+                const double mid = (n + 0.5) / steps;
+                m0 += rho;
+                m1 += rho * mid;
+            }
+            EXPECT_GE(m1 / m0, h - 1e-12) << "r " << r << " trial " << trial;
+        }
+    }
 }
