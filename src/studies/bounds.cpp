@@ -104,7 +104,7 @@ public:
         const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
         const double floor_off = duty_slack * (1.0 - duty);
         if (!(off > floor_off)) return 0.0;
-        const double i = current_slack * k.current;
+        const double i = k.current_lb();
         const double vf =
             std::min(diode_->vf(i, k.ambient), diode_->vf(i, std::max(k.ambient, tj_bound_)));
         return (off - floor_off) * i * std::max(0.0, vf);
@@ -153,7 +153,7 @@ public:
                     // peak <= sqrt(2·I·ΔI) <= I + ΔI: either way peak <= I + ΔI.
                     const double voff =
                         k.v0 + k.r * peak_ub + drop_max(peak_ub, k.ambient) + peak_ub * p.r_off_ub;
-                    peak_ub = std::min(peak_ub, i_target / current_slack +
+                    peak_ub = std::min(peak_ub, i_target / k.current_share +
                                                     volt_second_rate(von_ub, voff) / (l_lo * x1));
                 }
                 l_lo = std::max(l_lo, m_.inductance(peak_ub, k.l_scale));
@@ -203,8 +203,8 @@ public:
                 // Erickson & Maksimović 2nd ed. ch. 2) and ΔI >= ΔΨ/L_hi. In DCM the flux balance
                 // still holds and the charge I·T = ∫i·L(1/Von + 1/Voff) di <= L_hi·ΔI²/(2g), so
                 // ΔI >= sqrt(2·I·g·T/L_hi) (ibid. ch. 5).
-                i_lb = current_slack * i_target;
-                i_ub = i_target / current_slack;
+                i_lb = k.current_lb();
+                i_ub = i_target / k.current_share;
                 const double g_lb = volt_second_rate(von_lb, std::max(0.0, k.v0));
                 const double di_ccm = g_lb / (p.l_hi * x2);
                 di_lb = std::min(di_ccm, std::sqrt(2.0 * i_lb * di_ccm));

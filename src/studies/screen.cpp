@@ -33,8 +33,9 @@ double band_hi(const ScreenContext& c, const EnvelopeCorner& k) {
 // Smallest possible peak over the corners that carry the largest current.
 double peak_floor(const ScreenContext& c) {
     double p = 0.0;
-    for (const auto& k : c.corners) p = std::max(p, k.current + band_lo(c, k) / 2.0);
-    return current_slack * p;
+    for (const auto& k : c.corners)
+        p = std::max(p, k.current_share * (k.current + band_lo(c, k) / 2.0));
+    return p;
 }
 
 // Lower bound of the on-interval inductor voltage at a corner for an inductor of DCR `dcr_max`.
@@ -53,11 +54,15 @@ double ripple_ceiling(const ScreenContext& c, const EnvelopeCorner& k, double l_
     const double td = c.design->control.delay;
     double di = band_hi(c, k) + td * (1.2 * k.vin + diode_drop_max) / l_lo;
     if (c.design->limits.load_ripple && !c.design->output_capacitor)
-        di = std::min(di, *c.design->limits.load_ripple * k.current / current_slack);
+        di = std::min(di, *c.design->limits.load_ripple * k.current / k.current_share);
     return di;
 }
 
 } // namespace
+
+double average_current_share(const design::Design& d) {
+    return d.control.mode == design::ControlMode::hysteretic ? current_slack : pwm_current_share;
+}
 
 bool hysteretic(const ScreenContext& c) {
     return c.design->control.mode == design::ControlMode::hysteretic;
@@ -68,7 +73,7 @@ JunctionFloor junction_floor(const EnvelopeCorner& k, const parts::DiodeModel& m
     JunctionFloor j;
     j.tj = k.ambient;
     if (k.vin <= 0.0 || k.current <= 0.0) return j;
-    const double i = current_slack * k.current;
+    const double i = k.current_lb();
     const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
     const double vf = std::min(m.vf(i, k.ambient), m.vf(i, std::max(k.ambient, tj_bound)));
     j.conduction = duty_slack * (1.0 - duty) * i * std::max(0.0, vf);
@@ -83,7 +88,7 @@ JunctionFloor junction_floor(const EnvelopeCorner& k, const parts::DiodeModel& m
 bool junction_can_settle(const EnvelopeCorner& k, const parts::DiodeModel& m, double tj_bound) {
     if (k.vin <= 0.0 || k.current <= 0.0 || !(tj_bound > k.ambient)) return true;
     constexpr int cells = 64;
-    const double i = current_slack * k.current;
+    const double i = k.current_lb();
     const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
     const double off = duty_slack * (1.0 - duty) * i;
     auto conduction = [&](double t) { return off * std::max(0.0, m.vf(i, t)); };
@@ -119,7 +124,7 @@ std::vector<EnvelopeCorner> part_corners(const ScreenContext& c, double toleranc
     std::vector<EnvelopeCorner> out;
     for (const auto& k : converter::make_corners(*c.design, tolerance))
         out.push_back({k.name, k.vin, k.point.v0, k.point.r, k.point.current, k.ambient, k.l_scale,
-                       k.dcr_max, k.nominal, k.weight});
+                       k.dcr_max, k.nominal, k.weight, average_current_share(*c.design)});
     return out;
 }
 
@@ -128,8 +133,9 @@ ScreenContext make_screen_context(const design::Design& d, const optimisation::S
     c.design = &d;
     c.range = r;
     for (const auto& k : converter::make_corners(d, 0.0)) {
-        EnvelopeCorner e{k.name,    k.vin, k.point.v0, k.point.r, k.point.current,
-                         k.ambient, 1.0,   k.dcr_max,  k.nominal, k.weight};
+        EnvelopeCorner e{
+            k.name, k.vin,     k.point.v0, k.point.r, k.point.current,         k.ambient,
+            1.0,    k.dcr_max, k.nominal,  k.weight,  average_current_share(d)};
         c.vin_max = std::max(c.vin_max, e.vin);
         c.i_max = std::max(c.i_max, e.current);
         c.corners.push_back(std::move(e));
@@ -145,7 +151,7 @@ ScreenContext make_screen_context(const design::Design& d, const optimisation::S
     for (const auto& k : c.corners) {
         if (!k.nominal || k.vin <= 0.0) continue;
         const double w = std::max(0.0, k.weight);
-        const double i = current_slack * k.current;
+        const double i = k.current_lb();
         const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
         const double ron = converter::switch_on_resistance(d.sw, k.ambient);
         floor += w * i * i * (std::max(0.0, d.sense_resistor) + duty * ron);
@@ -176,7 +182,7 @@ std::vector<ScreenReason> screen_inductor(const ScreenContext& c, const parts::I
                            " exceeds " + fmt(lim.isat_derating, u::Dimension::ratio) + " of Isat " +
                            fmt(l.isat, u::Dimension::current)});
     // RMS rating: the RMS current is at least the average.
-    const double irms_lb = current_slack * c.i_max;
+    const double irms_lb = average_current_share(*c.design) * c.i_max;
     if (irms_lb > l.irms)
         out.push_back({"inductor_rms", "", irms_lb, l.irms,
                        "load current " + fmt(c.i_max, u::Dimension::current) +
@@ -255,7 +261,7 @@ std::vector<ScreenReason> screen_diode(const ScreenContext& c, const parts::Diod
         if (k.vin <= 0.0) continue;
         const double vo = k.v0 + k.r * k.current;
         const double off = std::clamp(1.0 - vo / k.vin, 0.0, 1.0);
-        const double id = duty_slack * off * current_slack * k.current;
+        const double id = duty_slack * off * k.current_lb();
         if (id > id_lb) {
             id_lb = id;
             at = k.name;

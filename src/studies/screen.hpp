@@ -26,6 +26,18 @@ struct ScreenReason {
     std::string message;
 };
 
+// Allowances shared by the screens and the bounds (engineering margins, common practice):
+// under hysteretic control the average current of a feasible pair is at least current_slack of
+// its target (the thresholds set it only through the ramps' shape, the delay and DCM); the diode
+// conducts for at least duty_slack·(1 − Vo/Vin) of the period (the drops the ideal duty ignores);
+// a diode drops at most diode_drop_max.
+constexpr double current_slack = 0.97;
+constexpr double pwm_current_share = 1.0 - 1e-6;
+constexpr double duty_slack = 0.75;
+constexpr double diode_drop_max = 3.0; // V
+// The share of its target the average current is at least, for this design's control.
+double average_current_share(const design::Design& d);
+
 // The operating envelope a design gives, from its corners.
 struct EnvelopeCorner {
     std::string name;
@@ -38,6 +50,11 @@ struct EnvelopeCorner {
     bool dcr_max = false; // the corner takes the maximum DCR
     bool nominal = false; // the loss objective is taken here
     double weight = 0.0;  // its share of the loss objective (charge profile time)
+    // The average current of a feasible pair is at least this share of `current`: current_slack
+    // under hysteretic control; under PWM the duty is solved so that the average is the target
+    // (converter/steady_state.cpp), so only the solver's tolerance, pwm_current_share.
+    double current_share = current_slack;
+    double current_lb() const { return current_share * current; }
 };
 
 struct ScreenContext {
@@ -52,14 +69,6 @@ struct ScreenContext {
     double loss_floor = 0.0; // W: sense-resistor and switch conduction loss no pair avoids,
                              // at the nominal corner(s) as the loss objective weighs them
 };
-
-// Allowances shared by the screens and the bounds (engineering margins, common practice):
-// the average current of a feasible pair is at least current_slack of its target (regulation error
-// of the comparator or of the duty solve); the diode conducts for at least duty_slack·(1 − Vo/Vin)
-// of the period (the drops the ideal duty ignores); a diode drops at most diode_drop_max.
-constexpr double current_slack = 0.97;
-constexpr double duty_slack = 0.75;
-constexpr double diode_drop_max = 3.0; // V
 
 bool hysteretic(const ScreenContext& c);
 

@@ -198,3 +198,26 @@ TEST(BoundsPwm, SmallInductorIsClosedByLoadRipple) {
     }
     EXPECT_EQ(found, 2) << "the starter catalog no longer has the parts this test names";
 }
+
+// Under PWM the bounds take the average current as the target itself (screen.hpp,
+// pwm_current_share): the engine solves the duty for it. If the engine ever lets the average
+// drift, this fails before a bound silently becomes wrong.
+TEST(BoundsPwm, AverageCurrentIsTheTargetAtEveryCorner) {
+    Case s("two-cell-charger.json");
+    const auto& k = starter();
+    std::size_t corners = 0;
+    for (std::size_t i : sample(k.inductors, 40))
+        for (std::size_t j : sample(k.diodes, 8))
+            for (std::size_t q = 0; q < s.scan.size(); q += 5) {
+                const auto e = converter::evaluate_pair(
+                    s.d, k.inductors[i], k.diodes[j],
+                    optimisation::make_setting(s.range, s.base, s.scan[q]));
+                for (const auto& c : e.corners) {
+                    if (c.status != converter::CornerStatus::ok) continue;
+                    ++corners;
+                    EXPECT_LE(std::abs(c.regulation_error), 1.0 - studies::pwm_current_share)
+                        << k.inductors[i].id << " with " << k.diodes[j].id << " at " << c.name;
+                }
+            }
+    EXPECT_GT(corners, 1000u);
+}

@@ -43,7 +43,7 @@ studies::EnvelopeCorner corner() {
 
 // The same map on 20,000 points: does it reach T somewhere below the limit?
 bool scan_settles(const studies::EnvelopeCorner& k, const parts::DiodeModel& m, double tj_bound) {
-    const double i = studies::current_slack * k.current;
+    const double i = k.current_lb();
     const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
     for (int n = 0; n <= 20000; ++n) {
         const double t = k.ambient + (tj_bound - k.ambient) * n / 20000.0;
@@ -84,7 +84,7 @@ TEST(JunctionBalance, ConductionAloneBalancesWhereTheHeatingLineMeetsTheTemperat
     // it; a limit 2 K below the lower end must not.
     const auto k = corner();
     const auto m = schottky(0.0);
-    const double i = studies::current_slack * k.current;
+    const double i = k.current_lb();
     const double duty = (k.v0 + k.r * k.current) / k.vin;
     auto power = [&](double t) { return studies::duty_slack * (1.0 - duty) * i * m.vf(i, t); };
     const double upper = k.ambient + m.rth_ja * power(k.ambient);
