@@ -14,7 +14,7 @@ namespace u = coilsieve::units;
 namespace {
 
 // Allowances that keep every screen a necessary condition (see screen.hpp).
-constexpr double loss_slack = 0.9; // loss floors are scaled down by this
+constexpr double loss_slack = 0.9; // the switch conduction floor is scaled down by this
 constexpr double t_hot = 448.15;   // K (175 °C): no part runs hotter and stays feasible
 constexpr double dcr_hot_factor = 1.0 + 0.00393 * (t_hot - 293.15); // IEC 60028 copper
 
@@ -154,10 +154,11 @@ ScreenContext make_screen_context(const design::Design& d, const optimisation::S
         const double i = k.current_lb();
         const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
         const double ron = converter::switch_on_resistance(d.sw, k.ambient);
-        floor += w * i * i * (std::max(0.0, d.sense_resistor) + duty * ron);
+        // I_rms >= I_avg makes the sense term exact; the allowance is for the switch's duty.
+        floor += w * i * i * (std::max(0.0, d.sense_resistor) + loss_slack * duty * ron);
         w_sum += w;
     }
-    c.loss_floor = w_sum > 0.0 ? loss_slack * floor / w_sum : 0.0;
+    c.loss_floor = w_sum > 0.0 ? floor / w_sum : 0.0;
     return c;
 }
 
