@@ -148,40 +148,28 @@ void apply_weight(design::Design& d, std::string_view spec) {
     }
     if (!(v >= 0.0) || !std::isfinite(v))
         throw UsageError("--weight \"" + text + "\": a weight is a number >= 0");
-    auto& w = d.weights;
-    if (name == "loss") w.loss = v;
-    else if (name == "size") w.size = v;
-    else if (name == "ripple") w.ripple = v;
-    else if (name == "margin") w.margin = v;
-    else if (name == "cost") w.cost = v;
-    else
+    const auto o = design::objective_from_name(name);
+    if (!o)
         throw UsageError("--weight \"" + text + "\": unknown objective \"" + name +
                          "\"; known: " + design::objective_list());
+    design::weight_of(d.weights, *o) = v;
 }
 
 void apply_pareto(design::Design& d, std::string_view list) {
     const std::string text(list);
-    std::vector<design::Objective> axes;
-    std::size_t start = 0;
-    while (start <= text.size()) {
+    std::vector<std::string> names;
+    for (std::size_t start = 0;;) {
         const auto comma = text.find(',', start);
-        const std::string name = trim(
-            text.substr(start, comma == std::string::npos ? std::string::npos : comma - start));
-        const auto o = design::objective_from_name(name);
-        if (!o)
-            throw UsageError("--pareto \"" + text + "\": unknown objective \"" + name +
-                             "\"; known: " + design::objective_list());
-        if (std::find(axes.begin(), axes.end(), *o) != axes.end())
-            throw UsageError("--pareto \"" + text + "\": \"" + name + "\" is listed twice");
-        axes.push_back(*o);
+        names.push_back(trim(
+            text.substr(start, comma == std::string::npos ? std::string::npos : comma - start)));
         if (comma == std::string::npos) break;
         start = comma + 1;
     }
-    if (axes.size() < 2)
-        throw UsageError("--pareto \"" + text +
-                         "\": give at least two objectives, e.g. "
-                         "loss,size,ripple");
-    d.pareto = std::move(axes);
+    try {
+        d.pareto = design::pareto_from_names(names);
+    } catch (const design::ObjectiveListError& e) {
+        throw UsageError("--pareto \"" + text + "\": " + e.what());
+    }
 }
 
 void apply_overrides(design::Design& d, const RankCliOptions& o) {

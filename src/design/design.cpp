@@ -1,5 +1,6 @@
 #include "design/design.hpp"
 
+#include <algorithm>
 #include <array>
 #include <utility>
 
@@ -25,6 +26,12 @@ std::string_view objective_name(Objective o) {
     return "?";
 }
 
+std::vector<Objective> all_objectives() {
+    std::vector<Objective> out;
+    for (const auto& [v, name] : objective_names) out.push_back(v);
+    return out;
+}
+
 std::string objective_list() {
     std::string out;
     for (const auto& [v, name] : objective_names)
@@ -36,6 +43,46 @@ std::optional<Objective> objective_from_name(std::string_view name) {
     for (const auto& [v, n] : objective_names)
         if (n == name) return v;
     return std::nullopt;
+}
+
+namespace {
+double Weights::*weight_member(Objective o) {
+    switch (o) {
+    case Objective::loss:
+        return &Weights::loss;
+    case Objective::size:
+        return &Weights::size;
+    case Objective::ripple:
+        return &Weights::ripple;
+    case Objective::margin:
+        return &Weights::margin;
+    case Objective::cost:
+        break;
+    }
+    return &Weights::cost;
+}
+} // namespace
+
+double& weight_of(Weights& w, Objective o) { return w.*weight_member(o); }
+double weight_of(const Weights& w, Objective o) { return w.*weight_member(o); }
+
+std::vector<Objective> pareto_from_names(const std::vector<std::string>& names) {
+    std::vector<Objective> out;
+    for (std::size_t i = 0; i < names.size(); ++i) {
+        const auto o = objective_from_name(names[i]);
+        if (!o)
+            throw ObjectiveListError(i, "unknown objective \"" + names[i] +
+                                            "\"; known: " + objective_list());
+        if (std::find(out.begin(), out.end(), *o) != out.end())
+            throw ObjectiveListError(i, "\"" + names[i] + "\" is listed twice");
+        out.push_back(*o);
+    }
+    if (out.size() < 2)
+        throw ObjectiveListError(std::string::npos,
+                                 "a Pareto set needs at least two objectives, e.g. loss,size "
+                                 "(known: " +
+                                     objective_list() + ")");
+    return out;
 }
 
 } // namespace coilsieve::design

@@ -5,6 +5,7 @@
 #include "loads/load.hpp"
 
 #include <optional>
+#include <stdexcept>
 #include <string>
 #include <string_view>
 #include <vector>
@@ -76,8 +77,23 @@ enum class Objective { loss, size, ripple, margin, cost };
 // "loss", "size", "ripple", "margin", "cost".
 std::string_view objective_name(Objective o);
 std::optional<Objective> objective_from_name(std::string_view name);
+// Every objective, in the order the messages list them.
+std::vector<Objective> all_objectives();
 // "loss, size, ripple, margin, cost": for messages naming the known objectives.
 std::string objective_list();
+// The weight an objective carries.
+double& weight_of(Weights& w, Objective o);
+double weight_of(const Weights& w, Objective o);
+
+// A Pareto objective list that cannot be used: `index` is the entry at fault, or npos when the
+// list as a whole is (fewer than two objectives).
+struct ObjectiveListError : std::invalid_argument {
+    ObjectiveListError(std::size_t at, const std::string& message)
+        : std::invalid_argument(message), index(at) {}
+    std::size_t index;
+};
+// The Pareto objectives from their names: each known, none twice, at least two.
+std::vector<Objective> pareto_from_names(const std::vector<std::string>& names);
 
 struct Design {
     std::string name;

@@ -618,11 +618,7 @@ private:
                      "expected a non-negative number such as 1 or 0.5, got " + quote(*x));
             out = x->get<double>();
         };
-        field("loss", w.loss);
-        field("size", w.size);
-        field("ripple", w.ripple);
-        field("margin", w.margin);
-        field("cost", w.cost);
+        for (const Objective o : all_objectives()) field(objective_name(o), weight_of(w, o));
         if (w.loss + w.size + w.ripple + w.margin + w.cost <= 0.0)
             fail(p, "all weights are zero; give at least one positive weight, e.g. \"loss\": 1");
         return w;
@@ -630,22 +626,18 @@ private:
 
     std::vector<Objective> pareto(const json& v) const {
         const std::string p = "pareto";
-        const std::string known = objective_list();
         if (!v.is_array())
             fail(p, "expected a list of objectives such as [\"loss\", \"size\"], got " + quote(v));
-        std::vector<Objective> out;
-        for (std::size_t i = 0; i < v.size(); ++i) {
-            const std::string at = p + "[" + std::to_string(i) + "]";
-            const std::string name = text(v[i], at);
-            const auto o = objective_from_name(name);
-            if (!o) fail(at, "unknown objective \"" + name + "\"; known: " + known);
-            if (std::find(out.begin(), out.end(), *o) != out.end())
-                fail(at, "\"" + name + "\" is listed twice");
-            out.push_back(*o);
+        std::vector<std::string> names;
+        for (std::size_t i = 0; i < v.size(); ++i)
+            names.push_back(text(v[i], p + "[" + std::to_string(i) + "]"));
+        try {
+            return pareto_from_names(names);
+        } catch (const ObjectiveListError& e) {
+            fail(e.index == std::string::npos ? p : p + "[" + std::to_string(e.index) + "]",
+                 e.what());
         }
-        if (out.size() < 2)
-            fail(p, "a Pareto set needs at least two objectives (known: " + known + ")");
-        return out;
+        return {};
     }
 
     static std::string load_noun(const loads::Load& l) {
@@ -847,11 +839,9 @@ json to_json(const Design& d) {
     if (l.footprint_max) lim["footprint_max"] = *l.footprint_max;
     if (l.efficiency_min) lim["efficiency_min"] = *l.efficiency_min;
     j["limits"] = lim;
-    j["weights"] = {{"loss", d.weights.loss},
-                    {"size", d.weights.size},
-                    {"ripple", d.weights.ripple},
-                    {"margin", d.weights.margin},
-                    {"cost", d.weights.cost}};
+    j["weights"] = json::object();
+    for (const Objective o : all_objectives())
+        j["weights"][std::string(objective_name(o))] = weight_of(d.weights, o);
     if (!d.pareto.empty()) {
         j["pareto"] = json::array();
         for (const auto o : d.pareto) j["pareto"].push_back(std::string(objective_name(o)));

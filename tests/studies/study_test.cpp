@@ -227,5 +227,28 @@ TEST(Limits, ShortFormsAndUnits) {
     EXPECT_THROW(cli::apply_limit(d, "efficiency<=90%"), cli::UsageError); // wrong direction
     cli::apply_weight(d, "size=2");
     EXPECT_DOUBLE_EQ(d.weights.size, 2.0);
+    cli::apply_weight(d, "cost = 0.3");
+    EXPECT_DOUBLE_EQ(d.weights.cost, 0.3);
+    EXPECT_DOUBLE_EQ(d.weights.size, 2.0);
     EXPECT_THROW(cli::apply_weight(d, "beauty=2"), cli::UsageError);
+}
+
+TEST(Limits, ParetoListIsCheckedLikeTheDesignFile) {
+    auto d = fixtures::lamp();
+    cli::apply_pareto(d, "loss, size,ripple");
+    ASSERT_EQ(d.pareto.size(), 3u);
+    EXPECT_EQ(d.pareto[2], design::Objective::ripple);
+    auto message = [&](const char* list) {
+        try {
+            cli::apply_pareto(d, list);
+        } catch (const cli::UsageError& e) {
+            return std::string(e.what());
+        }
+        return std::string("(no error)");
+    };
+    EXPECT_NE(message("loss").find("at least two"), std::string::npos) << message("loss");
+    EXPECT_NE(message("loss,loss").find("listed twice"), std::string::npos);
+    EXPECT_NE(message("loss,beauty").find("unknown objective \"beauty\""), std::string::npos);
+    EXPECT_NE(message("loss,beauty").find("margin"), std::string::npos); // lists the known ones
+    EXPECT_EQ(d.pareto.size(), 3u) << "a rejected list leaves the design as it was";
 }
