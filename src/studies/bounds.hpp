@@ -8,10 +8,13 @@
 // [x1, x2] by monotone pieces (ripple from x1, frequency from x2, ...), and the inductor's share of
 // the score is minimised over intervals refined where the minimum lies. The sum over a pair's two
 // parts is then a lower bound of what the tuner can reach.
-// Three allowances are engineering margins, not proofs: the average current is at least 0.97 of
-// its target, the diode's off-time share at least 0.75·(1 − Vo/Vin), and the switch duty at least
-// Vo/Vin (true in CCM). tests/studies/bounds_test.cpp checks every bound pointwise against the
-// engine on the starter catalog for both example designs.
+// Four allowances are engineering margins, not proofs: under hysteretic control the average
+// current is at least 0.97 of its target (under PWM it is the target: the engine solves the duty
+// for it); the diode's off-time share is at least 0.75·(1 − Vo/Vin) where CCM is not certain; the
+// switch duty is at least 0.9·Vo/Vin; a PWM peak is at least I + 0.9·ΔI/2. The rest are
+// inequalities (volt-second and charge balance, the ramps' least mean).
+// tests/studies/bounds_test.cpp checks every bound pointwise against the engine on the starter
+// catalog for both example designs.
 
 #include "design/design.hpp"
 #include "optimisation/objectives.hpp"
