@@ -29,6 +29,7 @@ struct CornerParts {
     double r_on_ub = 0.0;  // Ω: switch + sense + hot DCR, the on-path resistance at most
     double r_off_ub = 0.0; // Ω: sense + hot DCR, the off-path resistance at most
     double r_off_lb = 0.0; // Ω: sense + DCR at the ambient, the off-path resistance at least
+    double r_on_lb = 0.0;  // Ω: switch (as the engine takes it) + sense + DCR at the ambient
     double l_lo_cap = 0.0; // H: inductance at the Isat limit
     bool capacitor = false;
     double cap = 0.0, esr = 0.0; // F, Ω of the output capacitor when it takes ripple
@@ -72,6 +73,7 @@ public:
             p.r_on_ub = ron + rs + dcr_ub;
             p.r_off_ub = rs + dcr_ub;
             p.r_off_lb = rs + std::max(0.0, m.dcr(k.ambient, false));
+            p.r_on_lb = ron + p.r_off_lb;
             p.capacitor = cap > 0.0 && k.r > 0.0;
             p.cap = cap;
             p.esr = d_.output_capacitor ? std::max(0.0, d_.output_capacitor->esr) : 0.0;
@@ -178,11 +180,19 @@ public:
                 const double g_lb = volt_second_rate(von_lb, voff_lb);
                 peak_lb = i_target + b1 / 2.0 + td * von_lb / l_hi;
                 di_lb = std::min(b1 + td * (von_lb + voff_lb) / l_hi, peak_lb);
-                const double di_ub = b2 + td * (von_ub + voff_ub) / l_lo;
+                // The on-voltage falls with the current: over the whole on-ramp it is at most its
+                // value at the valley; over the overshoot past I + b/2 the series drop is at least
+                // that current's (the load's own drop only the valley's: a capacitor carries the
+                // ripple).
+                const double von_ub_ramp = std::max(0.0, von_ub - valley_lb * (k.r + p.r_on_lb));
+                const double von_ub_over =
+                    std::max(0.0, von_ub - valley_lb * k.r - (i_target + b1 / 2.0) * p.r_on_lb);
+                const double di_ub = b2 + td * (von_ub_over + voff_ub) / l_lo;
                 // t_on + t_off <= L_hi·ΔI·(1/Von_min + 1/Voff_min); DCM adds a rest of at most t_d.
                 if (g_lb > 0.0 && di_ub > 0.0)
                     f_lb = 1.0 / (l_hi * di_ub / g_lb + (valley_min < 0.0 ? td : 0.0));
-                if (di_lb > 0.0 && g_ub > 0.0) f_ub = g_ub / (l_lo * di_lb);
+                const double g_ub_ramp = volt_second_rate(von_ub_ramp, voff_ub);
+                if (di_lb > 0.0 && g_ub_ramp > 0.0) f_ub = g_ub_ramp / (l_lo * di_lb);
                 // The mean sits near (peak + valley)/2 = I + t_d·(Von − Voff)/(2L).
                 const double skew_lo = td * (von_lb - voff_ub) / 2.0;
                 const double skew_hi = td * (von_ub - voff_lb) / 2.0;
