@@ -43,23 +43,33 @@ std::vector<std::pair<std::string, double>> listed(const std::vector<studies::Pa
     return out;
 }
 
+design::Design example(const std::string& file) {
+    return design::load_design_file(std::string(COILSIEVE_SOURCE_DIR) + "/data/examples/" + file);
+}
+
+// A pruned ranking and an exhaustive one that keeps every tuned pair, on the thinned catalog.
+struct PrunedAndExhaustive {
+    studies::RankResult pruned, full;
+};
+PrunedAndExhaustive rank_both_ways(const design::Design& d) {
+    studies::RankOptions pruned, full;
+    full.exhaustive = true;
+    full.keep_all = true;
+    const auto& s = starter();
+    return {studies::rank_pairs(d, s.inductors, s.diodes, pruned, studies::default_evaluator()),
+            studies::rank_pairs(d, s.inductors, s.diodes, full, studies::default_evaluator())};
+}
+
 class StarterCatalog : public ::testing::TestWithParam<std::string> {};
 
 } // namespace
 
 TEST_P(StarterCatalog, PrunedEqualsExhaustiveAndBoundsHold) {
-    const auto d = design::load_design_file(std::string(COILSIEVE_SOURCE_DIR) + "/data/examples/" +
-                                            GetParam());
+    const auto d = example(GetParam());
     const auto& s = starter();
     ASSERT_GE(s.inductors.size(), 600u);
     ASSERT_GE(s.diodes.size(), 100u);
-    studies::RankOptions pruned, full;
-    full.exhaustive = true;
-    full.keep_all = true;
-    const auto rp =
-        studies::rank_pairs(d, s.inductors, s.diodes, pruned, studies::default_evaluator());
-    const auto rf =
-        studies::rank_pairs(d, s.inductors, s.diodes, full, studies::default_evaluator());
+    const auto [rp, rf] = rank_both_ways(d);
     EXPECT_EQ(listed(rp.top), listed(rf.top));
     EXPECT_EQ(listed(rp.pareto), listed(rf.pareto));
     for (const auto& p : rf.all) {
@@ -94,8 +104,7 @@ TEST_P(StarterCatalog, PrunedEqualsExhaustiveAndBoundsHold) {
 }
 
 TEST_P(StarterCatalog, OneAndTwoThreadsAgree) {
-    const auto d = design::load_design_file(std::string(COILSIEVE_SOURCE_DIR) + "/data/examples/" +
-                                            GetParam());
+    const auto d = example(GetParam());
     const auto& s = starter();
     studies::RankOptions one, two;
     one.threads = 1;
@@ -113,18 +122,11 @@ TEST_P(StarterCatalog, OneAndTwoThreadsAgree) {
 // not change the answer: the pruned set equals the non-dominated set of every pair tuned
 // exhaustively.
 TEST(StarterCatalogPareto, FourObjectiveSetEqualsBruteForce) {
-    auto d = design::load_design_file(std::string(COILSIEVE_SOURCE_DIR) +
-                                      "/data/examples/reading-lamp.json");
+    auto d = example("reading-lamp.json");
     d.pareto = {design::Objective::loss, design::Objective::size, design::Objective::ripple,
                 design::Objective::margin};
     const auto& s = starter();
-    studies::RankOptions pruned, full;
-    full.exhaustive = true;
-    full.keep_all = true;
-    const auto rp =
-        studies::rank_pairs(d, s.inductors, s.diodes, pruned, studies::default_evaluator());
-    const auto rf =
-        studies::rank_pairs(d, s.inductors, s.diodes, full, studies::default_evaluator());
+    const auto [rp, rf] = rank_both_ways(d);
     EXPECT_EQ(rp.pareto_axes, (std::vector<std::string>{"loss", "size", "ripple", "margin"}));
     std::vector<studies::PairResult> feasible;
     std::vector<std::vector<double>> points;
