@@ -2,6 +2,7 @@
 
 #include "converter/evaluate.hpp"
 #include "converter/json.hpp"
+#include "corner_keys.hpp"
 
 #include <algorithm>
 #include <cmath>
@@ -226,12 +227,7 @@ TEST(Pair, JsonCarriesTheDocumentedKeys) {
     const auto d = led_design();
     const auto e = evaluate_pair(d, inductor(), diode(), default_setting(d));
     const nlohmann::json j = e.corners.front();
-    for (const char* key :
-         {"name",         "vin",        "ambient",    "duty",           "f_sw",
-          "t_on",         "t_off",      "il_avg",     "il_peak",        "il_valley",
-          "il_ripple_pp", "il_rms",     "load_i_avg", "load_ripple_pp", "id_avg",
-          "id_rms",       "isw_rms",    "dcm",        "losses",         "p_out",
-          "efficiency",   "t_inductor", "tj_diode"})
+    for (const char* key : test_support::documented_corner_keys)
         EXPECT_TRUE(j.contains(key)) << key;
     for (const char* key :
          {"inductor_copper", "inductor_core", "diode_conduction", "diode_switching",
