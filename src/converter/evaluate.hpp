@@ -17,6 +17,10 @@ namespace coilsieve::converter {
 // board).
 constexpr double switch_temperature_rise = 30.0; // K
 
+// The thermal fixed point stops when a pass moves each temperature by less than this: a corner's
+// reported temperature and the one its losses were computed at differ by less.
+constexpr double temperature_tolerance = 0.05; // K
+
 // The switch's on-resistance at a corner: R_on rises linearly from its 25 °C value (design.hpp)
 // and the switch sits switch_temperature_rise above the corner's ambient.
 double switch_on_resistance(const design::Switch& sw, double ambient);

@@ -29,8 +29,8 @@ namespace {
 
 using units::Dimension;
 
-constexpr double temperature_tol = 0.05; // K, thermal fixed point
-constexpr double current_tol = 1e-5;     // relative to the target, linearisation points
+constexpr double temperature_tol = temperature_tolerance; // K, thermal fixed point
+constexpr double current_tol = 1e-5; // relative to the target, linearisation points
 constexpr int max_iterations = 50;
 constexpr double diode_runaway_margin = 100.0;    // K beyond tj_max: leakage has run away
 constexpr double inductor_runaway_margin = 300.0; // K beyond t_max: the winding has run away

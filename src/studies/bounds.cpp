@@ -51,8 +51,9 @@ struct Interval {
 class InductorBounder {
 public:
     InductorBounder(const ScreenContext& c, const parts::Inductor& l, const parts::InductorModel& m,
-                    const optimisation::Scales& s, const parts::DiodeModel* diode = nullptr)
-        : c_(c), d_(*c.design), l_(l), m_(m), s_(s), diode_(diode),
+                    const optimisation::Scales& s, const parts::DiodeModel* diode = nullptr,
+                    const DiodeBound* diode_bound = nullptr)
+        : c_(c), d_(*c.design), l_(l), m_(m), s_(s), diode_(diode), diode_bound_(diode_bound),
           corners_(part_corners(c, l.tolerance)) {
         if (diode_ != nullptr) {
             const auto& lim = d_.limits;
@@ -94,22 +95,22 @@ public:
 
     // With a diode and CCM certain (the valley above zero), the diode conducts for the whole off
     // interval, and volt-second balance gives t_off/T = V_on/(V_on + V_off) >= von_lb/(von_lb +
-    // voff_ub) (Erickson & Maksimović 2nd ed. ch. 2). What this adds to the diode's conduction
-    // floor, which assumes only duty_slack·(1 − Vo/Vin) (diode_bound, junction_floor): same
-    // current and V_f, larger share of the period.
+    // voff_ub) (Erickson & Maksimović 2nd ed. ch. 2). What this adds to the diode's heating floor,
+    // which assumes only duty_slack·(1 − Vo/Vin) (diode_bound): the same junction balance with
+    // the larger share of the period.
     double diode_excess(const EnvelopeCorner& k, double valley_lb, double von_lb,
                         double voff_ub) const {
-        if (diode_ == nullptr || !(valley_lb > 0.0) || !(von_lb > 0.0) || k.vin <= 0.0 ||
-            k.current <= 0.0)
+        if (diode_ == nullptr || diode_bound_ == nullptr || !(valley_lb > 0.0) || !(von_lb > 0.0) ||
+            k.vin <= 0.0 || k.current <= 0.0)
             return 0.0;
         const double off = von_lb / (von_lb + voff_ub);
         const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
         const double floor_off = duty_slack * (1.0 - duty);
         if (!(off > floor_off)) return 0.0;
-        const double i = k.current_lb();
-        const double vf =
-            std::min(diode_->vf(i, k.ambient), diode_->vf(i, std::max(k.ambient, tj_bound_)));
-        return (off - floor_off) * i * std::max(0.0, vf);
+        for (const auto& b : diode_bound_->nominal)
+            if (b.corner() == k.name)
+                return std::max(0.0, b.least_heating(off) - b.least_heating(floor_off));
+        return 0.0;
     }
 
     double value_at(double u) const {
@@ -404,6 +405,7 @@ private:
     const parts::InductorModel& m_;
     const optimisation::Scales& s_;
     const parts::DiodeModel* diode_ = nullptr;
+    const DiodeBound* diode_bound_ = nullptr;
     double tj_bound_ = 0.0;
     std::vector<EnvelopeCorner> corners_;
     std::vector<CornerParts> parts_;
@@ -420,9 +422,10 @@ InductorBound inductor_bound(const ScreenContext& c, const parts::Inductor& l,
 
 InductorBound pair_inductor_bound(const ScreenContext& c, const parts::Inductor& l,
                                   const parts::InductorModel& m, const InductorBound& b,
-                                  const parts::DiodeModel& diode, const optimisation::Scales& s) {
+                                  const parts::DiodeModel& diode, const DiodeBound& db,
+                                  const optimisation::Scales& s) {
     if (!b.feasible || b.stretches.empty()) return b;
-    return InductorBounder(c, l, m, s, &diode).rebound(b.stretches);
+    return InductorBounder(c, l, m, s, &diode, &db).rebound(b.stretches);
 }
 
 DiodeBound diode_bound(const ScreenContext& c, const parts::Diode& diode,
@@ -437,10 +440,11 @@ DiodeBound diode_bound(const ScreenContext& c, const parts::Diode& diode,
         const double w = std::max(0.0, k.weight);
         w_sum += w;
         if (k.vin <= 0.0 || k.current <= 0.0) continue;
-        // Conduction and leakage from below (junction_floor); the mean of v_f(i)·i over the
-        // off-interval is at least v_f(ī)·ī as v_f·i is convex in i.
-        const auto j = junction_floor(k, m, tj_bound, 4);
-        loss += w * (j.conduction + j.leakage);
+        // Conduction and leakage from below at the junction's balance (JunctionBalance); the mean
+        // of v_f(i)·i over the off-interval is at least v_f(ī)·ī as v_f·i is convex in i.
+        const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
+        b.nominal.emplace_back(k, m, tj_bound);
+        loss += w * b.nominal.back().least_heating(duty_slack * (1.0 - duty));
         // Junction charge lost each cycle (the engine's diode switching term without recovery).
         e_sw += w * m.capacitive_energy(k.vin);
     }

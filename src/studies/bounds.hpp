@@ -59,6 +59,7 @@ struct DiodeBound {
     double size = 0.0;        // m^3, exact
     double e_switch = 0.0;    // J per cycle of junction-charge loss at the nominal Vin
     double qrr_per_amp = 0.0; // C/A: recovery charge per ampere of forward current
+    std::vector<JunctionBalance> nominal; // its heating balance at each nominal corner
 };
 
 InductorBound inductor_bound(const ScreenContext& c, const parts::Inductor& l,
@@ -70,7 +71,8 @@ InductorBound inductor_bound(const ScreenContext& c, const parts::Inductor& l,
 // this pair. Its `loss` then includes what the diode's conduction adds to diode_bound's floor.
 InductorBound pair_inductor_bound(const ScreenContext& c, const parts::Inductor& l,
                                   const parts::InductorModel& m, const InductorBound& b,
-                                  const parts::DiodeModel& diode, const optimisation::Scales& s);
+                                  const parts::DiodeModel& diode, const DiodeBound& db,
+                                  const optimisation::Scales& s);
 DiodeBound diode_bound(const ScreenContext& c, const parts::Diode& diode,
                        const parts::DiodeModel& m, const optimisation::Scales& s);
 

@@ -338,7 +338,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         // The inductor's bound with this diode's own forward drop: tighter, and it may show that
         // no setting can meet the limits with this pair.
         const InductorBound lb = pair_inductor_bound(
-            ctx, l, *lprep[job.lk].model, lprep[job.lk].bound, *dprep[job.dk].model, scales);
+            ctx, l, *lprep[job.lk].model, lprep[job.lk].bound, *dprep[job.dk].model, db, scales);
         if (!options.exhaustive) {
             if (!lb.feasible) {
                 job.skipped = true;

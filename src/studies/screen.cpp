@@ -106,6 +106,37 @@ bool junction_can_settle(const EnvelopeCorner& k, const parts::DiodeModel& m, do
     return false;
 }
 
+JunctionBalance::JunctionBalance(const EnvelopeCorner& k, const parts::DiodeModel& m,
+                                 double tj_bound)
+    : corner_(k.name), ambient_(k.ambient), rth_(m.rth_ja), current_(k.current_lb()) {
+    if (k.vin <= 0.0 || k.current <= 0.0) return;
+    constexpr int cells = 128; // a cell's width over Rth is what the floor may give away
+    const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
+    const double top = std::max(k.ambient, tj_bound);
+    const double h = (top - k.ambient) / cells;
+    for (int n = 0; n <= (top > k.ambient ? cells : 0); ++n) {
+        const double t = n == cells ? top : k.ambient + h * n;
+        t_.push_back(t);
+        vf_.push_back(std::max(0.0, m.vf(current_, t)));
+        leak_.push_back(m.leakage(k.vin, t) * k.vin * duty);
+    }
+}
+
+double JunctionBalance::least_heating(double off) const {
+    if (t_.empty()) return 0.0;
+    const double q = std::max(0.0, off) * current_;
+    // V_f is concave in temperature (least at an end), leakage rises with it.
+    const double trivial = q * std::min(vf_.front(), vf_.back()) + leak_.front();
+    if (!(rth_ > 0.0)) return trivial;
+    const double tol = converter::temperature_tolerance;
+    for (std::size_t n = 0; n + 1 < t_.size(); ++n) {
+        const double heat = q * std::min(vf_[n], vf_[n + 1]) + leak_[n];
+        if (ambient_ + rth_ * heat <= t_[n + 1] + tol)
+            return std::max(trivial, (t_[n] - ambient_ - tol) / rth_);
+    }
+    return trivial; // no balance below the limit: infeasible, any floor holds
+}
+
 double ramp_mean_share(double density_ratio) {
     const double q = std::sqrt(std::clamp(density_ratio, 0.0, 1.0));
     return q / (1.0 + q);

@@ -83,6 +83,26 @@ struct JunctionFloor {
 };
 JunctionFloor junction_floor(const EnvelopeCorner& k, const parts::DiodeModel& m, double tj_bound,
                              int passes);
+// The diode's heating P (conduction + leakage) at the engine's thermal fixed point, from below,
+// for a share `off` of the period in conduction. At that point Tj = Ta + Rth·P (to within
+// converter::temperature_tolerance), and P >= off·I·V_f(I, Tj) + I_R(Vin, Tj)·Vin·D
+// (junction_floor's inequalities). So Tj is no lower than the first temperature where that floor
+// can balance, and P no lower than the rise there over Rth: V_f is taken near the junction's own
+// temperature instead of at its limit. Tabulated once per diode and corner on cells of [ambient,
+// tj_bound]; each cell is bounded by monotone pieces as in junction_can_settle.
+class JunctionBalance {
+public:
+    JunctionBalance() = default;
+    JunctionBalance(const EnvelopeCorner& k, const parts::DiodeModel& m, double tj_bound);
+    double least_heating(double off) const; // W
+    const std::string& corner() const { return corner_; }
+
+private:
+    std::string corner_;
+    double ambient_ = 0.0, rth_ = 0.0, current_ = 0.0;
+    std::vector<double> t_, vf_, leak_; // cell edges, V_f(I, t) and leakage power there
+};
+
 // Whether the junction can balance at all: false when, on every cell of [ambient, tj_bound], the
 // heating from below exceeds the temperature (T < Ta + Rth·(conduction + leakage) throughout), so
 // the fixed point the engine seeks lies above the limit or does not exist (runaway). Each cell is

@@ -4,7 +4,8 @@
 // - a part screened out because no setting in range can meet the limits is infeasible at every
 //   setting of a dense scan, with every diode (or inductor) of a sample;
 // - at every setting of the scan where a pair is feasible, the stretch bounds hold pointwise:
-//   score bound <= score and optimistic loss <= loss;
+//   score bound <= score and optimistic loss <= loss, and the diode's heating floor (its junction
+//   balance) <= its conduction and leakage loss;
 // - the probe's restricted loss bound, capped at a feasible point's own score, is still below the
 //   loss there (the tuned point is no worse than the probe, so it lies in the region).
 // The references are the engine's own evaluations (converter::evaluate_pair); the bounds are
@@ -56,6 +57,22 @@ struct Case {
         scan = optimisation::prescan_values(range, o);
     }
 };
+
+// The diode's conduction and leakage loss at the nominal corner(s), weighted as the loss
+// objective weighs them (converter::evaluate_pair).
+double nominal_diode_heating(const design::Design& d, const parts::Inductor& l,
+                             const converter::PairEvaluation& e) {
+    const auto corners = converter::make_corners(d, l.tolerance);
+    double sum = 0.0, w_sum = 0.0;
+    for (std::size_t k = 0; k < corners.size(); ++k) {
+        if (!corners[k].nominal) continue;
+        const auto& p = e.corners[k].losses;
+        const double w = std::max(0.0, corners[k].weight);
+        sum += w * (p.diode_conduction + p.diode_leakage);
+        w_sum += w;
+    }
+    return w_sum > 0.0 ? sum / w_sum : 0.0;
+}
 
 class Bounds : public ::testing::TestWithParam<std::string> {};
 
@@ -143,7 +160,7 @@ TEST_P(Bounds, StretchBoundsHoldAtEveryFeasibleSetting) {
             const double pair_bound = studies::pair_score_bound(s.ctx, lb, db, s.scales) + cost;
             const double loss_bound = studies::pair_optimistic(s.ctx, lb, db).loss;
             // The same stretches bounded again with this diode's forward drop.
-            const auto pb = studies::pair_inductor_bound(s.ctx, l, m, lb, dm, s.scales);
+            const auto pb = studies::pair_inductor_bound(s.ctx, l, m, lb, dm, db, s.scales);
             const double pb_score = studies::pair_score_bound(s.ctx, pb, db, s.scales) + cost;
             const double pb_loss = studies::pair_optimistic(s.ctx, pb, db).loss;
             for (double x : s.scan) {
@@ -163,6 +180,8 @@ TEST_P(Bounds, StretchBoundsHoldAtEveryFeasibleSetting) {
                 EXPECT_LE(studies::pair_loss_within(s.ctx, pb, db, s.scales, p.score - cost),
                           p.objectives.loss)
                     << at;
+                // The diode's own heating floor (its junction balance) holds by itself.
+                EXPECT_LE(db.loss, nominal_diode_heating(s.d, l, p.evaluation)) << at;
                 EXPECT_LE(lb.ripple, p.objectives.ripple + 1e-12) << at;
                 EXPECT_GE(lb.margin, p.objectives.margin - 1e-12) << at;
                 // Capped at this point's own score, the region still holds this point.

@@ -1,4 +1,5 @@
-// The junction balance screen (studies::junction_can_settle) against a dense scan of the same
+// The junction balance screen (studies::junction_can_settle) and heating floor
+// (studies::JunctionBalance) against a dense scan of the same
 // lower-bound heating map h(T) = Ta + Rth·(conduction(T) + leakage(T)) − T: the screen may only say
 // "no balance" where the scan finds h > 0 everywhere on [Ta, Tj limit], and it should say so close
 // to where the scan's answer changes. The diode is a generic 2 A Schottky (SPICE parameters of the
@@ -92,6 +93,42 @@ TEST(JunctionBalance, ConductionAloneBalancesWhereTheHeatingLineMeetsTheTemperat
     const double lower = k.ambient + m.rth_ja * power(upper + 2.0);
     ASSERT_GT(lower - 2.0, k.ambient);
     EXPECT_FALSE(studies::junction_can_settle(k, m, lower - 2.0));
+}
+
+// The diode's heating floor (studies::JunctionBalance) against the balance of the same map found
+// on 200,000 points: the engine's fixed point has Tj = Ta + Rth·P with P at least the map's
+// heating, so P >= (T* − Ta)/Rth where T* is the first temperature the map reaches. The floor may
+// not exceed that (it would prune a pair that can win) and should be within two of its cells of
+// it (a floor far below is valid but useless).
+TEST(JunctionBalance, HeatingFloorIsTheRiseToTheFirstBalance) {
+    const auto k = corner();
+    const double tj_bound = 398.15;
+    const auto m = schottky(2e-4);
+    const double i = k.current_lb();
+    const double duty = (k.v0 + k.r * k.current) / k.vin;
+    const studies::JunctionBalance balance(k, m, tj_bound);
+    double previous = 0.0;
+    for (double off : {0.3, studies::duty_slack * (1.0 - duty), 0.6}) {
+        double t_star = tj_bound;
+        for (int n = 0; n <= 200000; ++n) {
+            const double t = k.ambient + (tj_bound - k.ambient) * n / 200000.0;
+            const double heat = off * i * m.vf(i, t) + m.leakage(k.vin, t) * k.vin * duty;
+            if (k.ambient + m.rth_ja * heat <= t) {
+                t_star = t;
+                break;
+            }
+        }
+        ASSERT_LT(t_star, tj_bound) << "off " << off << ": the case should balance";
+        const double p_star = (t_star - k.ambient) / m.rth_ja;
+        const double floor = balance.least_heating(off);
+        const double cell = (tj_bound - k.ambient) / 128.0;
+        EXPECT_LE(floor, p_star) << "off " << off;
+        EXPECT_GE(floor, p_star - (2.0 * cell + 2.0 * 0.05) / m.rth_ja) << "off " << off;
+        // Well above the conduction with V_f taken at the junction limit (the older floor).
+        EXPECT_GT(floor, 1.05 * off * i * m.vf(i, tj_bound)) << "off " << off;
+        EXPECT_GE(floor, previous) << "more conduction, more heating";
+        previous = floor;
+    }
 }
 
 // The least-mean lemma behind ramp_mean_share, checked by construction: the two-level density it
