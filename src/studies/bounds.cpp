@@ -93,6 +93,15 @@ public:
         return std::min(diode_drop_max, v + slope * std::max(0.0, tj_bound_ - ambient));
     }
 
+    // The least forward drop at current i a pair's diode can have (0 without a diode): V_f rises
+    // with the current and is concave in temperature, so over [ambient, junction limit] its
+    // least value is at an end.
+    double drop_min(double i, double ambient) const {
+        if (diode_ == nullptr || !(i > 0.0)) return 0.0;
+        return std::max(
+            0.0, std::min(diode_->vf(i, ambient), diode_->vf(i, std::max(ambient, tj_bound_))));
+    }
+
     // With a diode and CCM certain (the valley above zero), the diode conducts for the whole off
     // interval, and volt-second balance gives t_off/T = V_on/(V_on + V_off) >= von_lb/(von_lb +
     // voff_ub) (Erickson & Maksimović 2nd ed. ch. 2). What this adds to the diode's heating floor,
@@ -176,8 +185,10 @@ public:
                 valley_lb = std::max(0.0, valley_min);
                 // Along the cycle the current stays above the valley, so L <= L(valley).
                 const double l_hi = m_.inductance(valley_lb, k.l_scale);
-                // V_off = v0 + (r + R_s + DCR)·i + V_f(i) >= its resistive part at the valley.
-                const double voff_lb = std::max(0.0, k.v0 + valley_lb * (k.r + p.r_off_lb));
+                // V_off = v0 + (r + R_s + DCR)·i + V_f(i) >= its value at the valley (V_f with this
+                // pair's diode, else 0).
+                const double voff_lb = std::max(0.0, k.v0 + valley_lb * (k.r + p.r_off_lb) +
+                                                         drop_min(valley_lb, k.ambient));
                 const double g_lb = volt_second_rate(von_lb, voff_lb);
                 peak_lb = i_target + b1 / 2.0 + td * von_lb / l_hi;
                 di_lb = std::min(b1 + td * (von_lb + voff_lb) / l_hi, peak_lb);
@@ -216,16 +227,22 @@ public:
                 // ΔI >= sqrt(2·I·g·T/L_hi) (ibid. ch. 5).
                 i_lb = k.current_lb();
                 i_ub = i_target / k.current_share;
+                const double di_ub = g_ub / (l_lo * x1);
+                valley_lb = std::max(0.0, i_lb - di_ub);
                 const double g_lb = volt_second_rate(von_lb, std::max(0.0, k.v0));
                 const double di_ccm = g_lb / (p.l_hi * x2);
                 di_lb = std::min(di_ccm, std::sqrt(2.0 * i_lb * di_ccm));
                 dcm_certain = di_ccm > 2.0 * i_ub;
-                const double di_ub = g_ub / (l_lo * x1);
+                if (valley_lb > 0.0) {
+                    // CCM certain: the off-voltage never falls below its value at the valley.
+                    const double voff_lb =
+                        k.v0 + valley_lb * (k.r + p.r_off_lb) + drop_min(valley_lb, k.ambient);
+                    di_lb = std::max(di_lb, volt_second_rate(von_lb, voff_lb) / (p.l_hi * x2));
+                }
                 // The mean of near-linear ramps sits mid-way between valley and peak (CCM), and
                 // below peak/2 in DCM, so peak >= I + ΔI/2; ramp_shape_slack allows for the
                 // curvature of R–L ramps and L(i).
                 peak_lb = i_lb + 0.5 * ramp_shape_slack * di_lb;
-                valley_lb = std::max(0.0, i_lb - di_ub);
                 f_lb = x1;
                 f_ub = x2;
             }
