@@ -112,9 +112,56 @@ std::vector<double> prescan_values(const SettingRange& range, const TuneOptions&
     return v;
 }
 
+std::vector<TunedPoint> walk_hint(const SettingRange& range, const converter::Setting& base,
+                                  const PairEvaluator& evaluate, const Scorer& scorer, double start,
+                                  double toward) {
+    std::vector<TunedPoint> out;
+    if (!(range.hi > range.lo) || !(start >= range.lo && start <= range.hi)) return out;
+    constexpr double step = 0.02; // of the range, in the tuner's unit coordinate
+    auto eval_at = [&](double u) {
+        const converter::Setting s = make_setting(range, base, from_unit(range, u));
+        TunedPoint p = scorer(s, evaluate(s));
+        p.violation = p.evaluation.feasible ? 0.0 : violation(p.evaluation);
+        return p;
+    };
+    auto worst = [](const converter::PairEvaluation& e) {
+        const converter::LimitCheck* w = nullptr;
+        for (const auto& c : e.violations)
+            if (w == nullptr || safe_margin(c.margin) < safe_margin(w->margin)) w = &c;
+        return w;
+    };
+    auto margin_of = [](const converter::PairEvaluation& e, const converter::LimitCheck& like) {
+        for (const auto& c : e.checks)
+            if (c.limit == like.limit && c.corner == like.corner) return safe_margin(c.margin);
+        return broken_nan_margin;
+    };
+    const double u0 = to_unit(range, start);
+    out.push_back(eval_at(u0));
+    const double dir = to_unit(range, toward) - u0;
+    if (out.back().evaluation.feasible || !(std::abs(dir) > 0.0)) return out;
+    const double sign = dir > 0.0 ? 1.0 : -1.0;
+    const double u1 = std::clamp(u0 + sign * step, 0.0, 1.0);
+    out.push_back(eval_at(u1));
+    if (out.back().evaluation.feasible) return out;
+    double u2 = u1 + 2.0 * sign * step;
+    if (const auto* w0 = worst(out.front().evaluation)) {
+        const double m0 = safe_margin(w0->margin);
+        const double m1 = margin_of(out.back().evaluation, *w0);
+        // Aim a little inside the limit: margins are not quite linear in the setting.
+        if (m1 > m0 && m1 < 0.0) {
+            const double target = 0.1 * std::abs(m0);
+            const double u = u1 + (target - m1) * (u1 - u0) / (m1 - m0);
+            u2 = std::clamp(u, std::min(u1, u1 + 8.0 * sign * step),
+                            std::max(u1, u1 + 8.0 * sign * step));
+        }
+    }
+    out.push_back(eval_at(std::clamp(u2, 0.0, 1.0)));
+    return out;
+}
+
 TuneResult tune(const SettingRange& range, const converter::Setting& base,
                 const PairEvaluator& evaluate, const Scorer& scorer, const TuneOptions& options,
-                std::span<const double> hints) {
+                std::span<const double> hints, std::span<const TunedPoint> visited) {
     TuneResult result;
     bool have_best = false;
     auto consider = [&](TunedPoint&& p) {
@@ -151,6 +198,16 @@ TuneResult tune(const SettingRange& range, const converter::Setting& base,
             TunedPoint p = eval_at(x);
             cmap.learn(p.evaluation);
             const bool improves = better(p, result.best);
+            consider(std::move(p));
+            if (improves) best_u = to_unit(range, x);
+        }
+    if (!fixed)
+        for (const TunedPoint& v : visited) {
+            TunedPoint p = v;
+            cmap.learn(p.evaluation);
+            const bool improves = better(p, result.best);
+            const double x =
+                range.variable == Variable::band ? p.setting.band : p.setting.frequency;
             consider(std::move(p));
             if (improves) best_u = to_unit(range, x);
         }

@@ -72,10 +72,22 @@ Scorer make_scorer(const parts::Inductor& l, const parts::Diode& diode, const de
 std::vector<double> prescan_values(const SettingRange& range, const TuneOptions& options = {});
 
 // `hints`: extra values of the free variable evaluated after the pre-scan (e.g. where a bound
-// puts the optimum); the best of all of them starts the local solve.
+// puts the optimum); `visited`: points already evaluated for this pair (walk_hint), taken as if
+// evaluated here. The best of all of them starts the local solve.
 TuneResult tune(const SettingRange& range, const converter::Setting& base,
                 const PairEvaluator& evaluate, const Scorer& scorer,
-                const TuneOptions& options = {}, std::span<const double> hints = {});
+                const TuneOptions& options = {}, std::span<const double> hints = {},
+                std::span<const TunedPoint> visited = {});
+
+// From `start` (e.g. where a bound puts the optimum) towards `toward` (e.g. the middle of the
+// window the bound leaves open) until a point meets every limit, at most three evaluations:
+// `start`; a small step towards `toward`; then, if the most broken limit's margin improved, the
+// secant estimate of where it turns positive, else a larger step. Points in order of evaluation;
+// none when the range is fixed. Deterministic, so a ranking may evaluate it once to bound a pair
+// and hand the points to tune().
+std::vector<TunedPoint> walk_hint(const SettingRange& range, const converter::Setting& base,
+                                  const PairEvaluator& evaluate, const Scorer& scorer, double start,
+                                  double toward);
 
 // The check with the smallest margin in an evaluation (nullptr when there are none).
 const converter::LimitCheck* least_margin(const converter::PairEvaluation& e);

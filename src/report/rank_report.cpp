@@ -60,7 +60,7 @@ std::string rank_footer(const studies::RankResult& r) {
     os << "Pairs: " << c.pairs_total << " (" << c.inductors << " inductors × " << c.diodes
        << " diodes); after screening " << c.pairs_considered << "; tuned " << c.pairs_tuned
        << ", skipped by bounds " << c.pairs_pruned;
-    if (c.pairs_probed > 0) os << " (with " << c.pairs_probed << " one-point probes)";
+    if (c.pairs_probed > 0) os << " (with " << c.pairs_probed << " probed first)";
     os << "; feasible " << c.pairs_feasible << ", infeasible " << c.pairs_infeasible
        << "; on the Pareto set " << c.pareto << ".\n";
     os << "Screened out: " << c.inductors_screened << " inductors, " << c.diodes_screened

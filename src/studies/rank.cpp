@@ -313,20 +313,33 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
     const converter::Setting base = converter::default_setting(d);
     std::vector<std::size_t> dprep_of(diodes.size(), 0);
     for (std::size_t k = 0; k < res.diodes_used.size(); ++k) dprep_of[res.diodes_used[k]] = k;
-    // A pair that can only matter for the Pareto set is first probed once, where its score bound
-    // is least. The tuner starts from that same point and ends no worse, so the tuned setting
-    // lies where the score bound is below the probe's score, and the loss bound there often
-    // shows the pair dominated (bounds.hpp, pair_loss_within).
+    // A pair that can only matter for the Pareto set is first probed: from where its score bound
+    // is least, walked into its open window until a point meets the limits (walk_hint). The tuner
+    // is handed those same points and ends no worse, so the tuned setting lies where the score
+    // bound is below the best probe score, and the loss bound there often shows the pair
+    // dominated (bounds.hpp, pair_loss_within).
     struct Job {
         PairResult r;
         std::size_t lk = 0, dk = 0;
-        bool probe = false;   // probe before tuning (set when taken into a batch)
-        bool probed = false;  // its loss bound already has the probe's tightening
-        bool skipped = false; // the probe showed it dominated
-        bool requeue = false; // the probe raised its loss bound: back to the queue
+        bool probe = false;       // probe before tuning (set when taken into a batch)
+        bool probed = false;      // its loss bound already has the probe's tightening
+        bool probed_here = false; // probed in this job
+        bool skipped = false;     // the probe showed it dominated
+        bool requeue = false;     // the probe raised its loss bound: back to the queue
         optimisation::Objectives optimistic;
         double cost_term = 0.0;
         int probe_evaluations = 0;
+    };
+    // The middle of the settings a pair's bound leaves open (where a hint walks when it breaks a
+    // limit); `fallback` when it leaves none.
+    auto window_middle = [&](const InductorBound& ib, double fallback) {
+        if (ib.stretches.empty()) return fallback;
+        double lo = INFINITY, hi = -INFINITY;
+        for (const auto& st : ib.stretches) {
+            lo = std::min(lo, st.x1);
+            hi = std::max(hi, st.x2);
+        }
+        return res.range.log_scale && lo > 0.0 ? std::sqrt(lo * hi) : 0.5 * (lo + hi);
     };
     auto run_job = [&](Job& job) {
         PairResult& pr = job.r;
@@ -353,21 +366,25 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
                 return;
             }
         }
-        // The tuner also starts from where the bound is least, in every mode (same answer).
-        std::vector<double> hints;
-        if (const auto x = pair_best_setting(ctx, lb, db, scales)) hints.push_back(*x);
+        // The tuner also starts from where the bound is least, walking towards the middle of the
+        // pair's open window until a point meets the limits, in every mode (same answer).
+        std::vector<optimisation::TunedPoint> walked;
         try {
             const optimisation::PairEvaluator ev = evaluate(d, l, prepared);
-            if (job.probe && !hints.empty()) {
-                const double x = hints.front();
-                const auto s = optimisation::make_setting(res.range, base, x);
-                const auto p = scorer(s, ev(s));
-                job.probe_evaluations = 1;
-                job.probed = true;
-                if (p.evaluation.feasible && std::isfinite(p.score)) {
+            if (const auto x = pair_best_setting(ctx, lb, db, scales))
+                walked =
+                    optimisation::walk_hint(res.range, base, ev, scorer, *x, window_middle(lb, *x));
+            if (job.probe && !walked.empty()) {
+                job.probed = job.probed_here = true;
+                job.probe_evaluations = static_cast<int>(walked.size());
+                double cap = INFINITY;
+                for (const auto& p : walked)
+                    if (p.evaluation.feasible && std::isfinite(p.score))
+                        cap = std::min(cap, p.score);
+                if (std::isfinite(cap)) {
                     auto o = job.optimistic;
-                    o.loss = std::max(
-                        o.loss, pair_loss_within(ctx, lb, db, scales, p.score - job.cost_term));
+                    o.loss = std::max(o.loss,
+                                      pair_loss_within(ctx, lb, db, scales, cap - job.cost_term));
                     if (dominated_by_front(pareto_vector(o, axes))) {
                         job.skipped = true;
                         return;
@@ -378,8 +395,9 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
                         return;
                     }
                 }
+                job.probe_evaluations = 0; // handed to the tuner, which counts them
             }
-            pr.tune = optimisation::tune(res.range, base, ev, scorer, options.tune, hints);
+            pr.tune = optimisation::tune(res.range, base, ev, scorer, options.tune, {}, walked);
         } catch (const std::exception& e) {
             pr.tune = optimisation::TuneResult{};
             pr.tune.feasible = false;
@@ -402,7 +420,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         parallel_for(batch.size(), threads, [&](std::size_t k) { run_job(batch[k]); });
         for (auto& job : batch) {
             counts.evaluations += static_cast<std::size_t>(job.probe_evaluations);
-            if (job.probe_evaluations > 0) ++counts.pairs_probed;
+            if (job.probed_here) ++counts.pairs_probed;
             if (job.skipped) {
                 ++counts.pairs_pruned;
                 ++done;

@@ -7,9 +7,9 @@
 // left in ascending order of an optimistic loss; a pair is skipped only when its optimistic
 // objective vector is dominated by a pair already tuned. Its true score and objectives are no
 // better than those bounds, so it could enter neither the top N nor the Pareto set. The bounds
-// and the one-evaluation probe that tightens them are in bounds.hpp. Pairs are tuned in batches
-// of a fixed size; a batch is tuned in parallel and merged in order, so the pairs tuned, and the
-// answer, do not depend on the number of threads.
+// are in bounds.hpp; a probe (optimisation::walk_hint, the tuner's own first points) tightens them.
+// Pairs are tuned in batches of a fixed size; a batch is tuned in parallel and merged in order, so
+// the pairs tuned, and the answer, do not depend on the number of threads.
 
 #include "converter/evaluate.hpp"
 #include "design/design.hpp"
@@ -84,8 +84,8 @@ struct RankCounts {
     std::map<std::string, std::size_t> screened_by_limit; // parts, counted by every reason
     std::size_t pairs_total = 0;                          // inductors x diodes (after locks)
     std::size_t pairs_considered = 0;                     // both parts passed screening
-    std::size_t pairs_pruned = 0; // skipped by bounds (some after one probe evaluation)
-    std::size_t pairs_probed = 0; // evaluated once at a pre-scan point before tuning
+    std::size_t pairs_pruned = 0;                         // skipped by bounds (some after a probe)
+    std::size_t pairs_probed = 0; // probed before tuning: up to three evaluations (walk_hint)
     std::size_t pairs_tuned = 0;
     std::size_t pairs_feasible = 0;
     std::size_t pairs_infeasible = 0;

@@ -154,3 +154,43 @@ TEST(Tune, EvaluatorExceptionPropagates) {
     SettingRange r{Variable::band, 0.05, 0.8, false};
     EXPECT_THROW(tune(r, {}, eval, loss_scorer()), std::runtime_error);
 }
+
+TEST(WalkHint, BrokenHintWalksIntoTheWindowNearItsEdge) {
+    // f = c/band <= f_max opens the window at band 0.5 (derived); the hint sits below it.
+    SyntheticPair pair;
+    pair.f_max = 2e5;
+    SettingRange r{Variable::band, 0.05, 0.8, false};
+    const auto walked = walk_hint(r, {}, pair, loss_scorer(), 0.45, 0.7);
+    ASSERT_GE(walked.size(), 2u);
+    ASSERT_LE(walked.size(), 3u);
+    EXPECT_FALSE(walked.front().evaluation.feasible);
+    EXPECT_DOUBLE_EQ(walked.front().setting.band, 0.45);
+    ASSERT_TRUE(walked.back().evaluation.feasible);
+    EXPECT_GE(walked.back().setting.band, 0.5);
+    // Close to the edge, where the tuned point lies: within a tenth of the range.
+    EXPECT_LT(walked.back().setting.band, 0.5 + 0.075);
+}
+
+TEST(WalkHint, FeasibleHintIsOnePointAndAFixedRangeNone) {
+    SyntheticPair pair;
+    SettingRange r{Variable::band, 0.05, 0.8, false};
+    const auto walked = walk_hint(r, {}, pair, loss_scorer(), 0.3, 0.5);
+    ASSERT_EQ(walked.size(), 1u);
+    EXPECT_TRUE(walked.front().evaluation.feasible);
+    EXPECT_TRUE(
+        walk_hint(fixed_range(Variable::band, 0.3), {}, pair, loss_scorer(), 0.3, 0.5).empty());
+}
+
+TEST(WalkHint, TunerCountsTheWalkAndEndsNoWorse) {
+    SyntheticPair pair;
+    pair.f_max = 2e5;
+    SettingRange r{Variable::band, 0.05, 0.8, false};
+    const auto walked = walk_hint(r, {}, pair, loss_scorer(), 0.45, 0.7);
+    const TuneResult plain = tune(r, {}, pair, loss_scorer());
+    const TuneResult t = tune(r, {}, pair, loss_scorer(), {}, {}, walked);
+    ASSERT_TRUE(t.feasible);
+    EXPECT_LE(t.best.score, walked.back().score);
+    EXPECT_NEAR(t.best.setting.band, plain.best.setting.band, 1e-3);
+    // The pre-scan's 8 points, the walk, then the local solve.
+    EXPECT_GT(t.evaluations, 8 + static_cast<int>(walked.size()));
+}
