@@ -259,7 +259,8 @@ PwmInductance pwm_inductance(const parts::InductorModel& l, double scale, const 
 // solved exactly with the closed-form 2×2 matrix exponential e^{At} = e^{μt}·(c·I + s·(A − μI)),
 // μ = tr A/2, δ² = μ² − det A, c = cosh δt, s = sinh(δt)/δ (cos/sin for δ² < 0) (Cayley–Hamilton),
 // around the interval's equilibrium x* = −A⁻¹b; the periodic state solves the 2×2 fixed point
-// x0 = Φ_off·(Φ_on·x0 + g_on) + g_off. Integrals by composite Simpson on the exact waveform.
+// x0 = Φ_off·(Φ_on·x0 + g_on) + g_off. ∫i dt exactly (charge_i), the squares by composite Simpson
+// on the exact waveform.
 struct Lin2 {
     double a11, a12, a21, a22, b1, b2;
 };
@@ -291,6 +292,12 @@ Mat2 expm2(const Lin2& a, double t) {
     const double em = std::exp(mu * t);
     return {em * (c + sn * (a.a11 - mu)), em * sn * a.a12, em * sn * a.a21,
             em * (c + sn * (a.a22 - mu))};
+}
+// ∫i dt over an interval that runs from state (i0, v0) to (i1, v1): integrating x' = A·x + b gives
+// ∫x dt = A⁻¹·(x1 − x0) − A⁻¹·b·t = A⁻¹·(x1 − x0) + x*·t, exact and free of quadrature.
+double charge_i(const Lin2& a, double eq_i, double i0, double v0, double i1, double v1, double t) {
+    const double det = a.a11 * a.a22 - a.a12 * a.a21;
+    return (a.a22 * (i1 - i0) - a.a12 * (v1 - v0)) / det + eq_i * t;
 }
 // Equilibrium −A⁻¹b.
 void equilibrium(const Lin2& a, double& i, double& v) {
@@ -326,11 +333,15 @@ Wave2 pwm_wave2(const Lin2& on, const Lin2& off, const Output2& o, double period
     const double xi1 = e1i + p1.m11 * (w.i0 - e1i) + p1.m12 * (w.v0 - e1v);
     const double xv1 = e1v + p1.m21 * (w.i0 - e1i) + p1.m22 * (w.v0 - e1v);
     w.i_peak = xi1;
-    // Simpson over each interval on the exact solution.
+    w.q_on = charge_i(on, e1i, w.i0, w.v0, xi1, xv1, t1);
+    w.q_off = charge_i(off, e2i, xi1, xv1, w.i0, w.v0, t2);
+    w.ok = std::isfinite(w.q_on) && std::isfinite(w.q_off) && w.i0 > 0.0;
+    if (!full) return w; // the duty search needs only the charge
+    // Simpson over each interval on the exact solution for the squares and the load's extremes.
     constexpr int n = 16;
     w.load_min = std::numeric_limits<double>::infinity();
     w.load_max = -w.load_min;
-    auto run = [&](const Lin2& a, double ei, double ev, double xi, double xv, double t, double& q,
+    auto run = [&](const Lin2& a, double ei, double ev, double xi, double xv, double t,
                    double& q2) {
         const double h = t / n;
         // One step matrix, applied n times: e^{A·kh} = (e^{A·h})^k, so no exp/cosh per sample.
@@ -345,23 +356,19 @@ Wave2 pwm_wave2(const Lin2& on, const Lin2& off, const Output2& o, double period
             const double i = ei + ui;
             const double v = ev + uv;
             const double wk = (k == 0 || k == n) ? 1.0 : (k % 2 == 1 ? 4.0 : 2.0);
-            q += wk * i;
             q2 += wk * i * i;
-            if (full) {
-                const double il = o.i_load(i, v);
-                const double ic = i - il;
-                w.load_min = std::min(w.load_min, il);
-                w.load_max = std::max(w.load_max, il);
-                w.load_q2 += wk * il * il * h / 3.0;
-                w.cap_q2 += wk * ic * ic * h / 3.0;
-            }
+            const double il = o.i_load(i, v);
+            const double ic = i - il;
+            w.load_min = std::min(w.load_min, il);
+            w.load_max = std::max(w.load_max, il);
+            w.load_q2 += wk * il * il * h / 3.0;
+            w.cap_q2 += wk * ic * ic * h / 3.0;
         }
-        q *= h / 3.0;
         q2 *= h / 3.0;
     };
-    run(on, e1i, e1v, w.i0, w.v0, t1, w.q_on, w.q2_on);
-    run(off, e2i, e2v, xi1, xv1, t2, w.q_off, w.q2_off);
-    w.ok = std::isfinite(w.q_on) && std::isfinite(w.q_off) && w.i0 > 0.0;
+    run(on, e1i, e1v, w.i0, w.v0, t1, w.q2_on);
+    run(off, e2i, e2v, xi1, xv1, t2, w.q2_off);
+    w.ok = w.ok && std::isfinite(w.q2_on) && std::isfinite(w.q2_off);
     return w;
 }
 
@@ -719,24 +726,9 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
                 pl.dq_on + pl.dq_off != 0.0 ? pl.dq_on / (pl.dq_on + pl.dq_off) : 0.5;
             const double target_lin = target - dq_used / period;
             double duty = 0.0;
-            // First guess from the averaged model: I·(R1·D + R2·(1 − D)) = E1·D + E2·(1 − D).
-            double guess = duty_prev > 0.0 ? duty_prev
-                                           : (target * off.r - off.e) /
-                                                 ((on.e - off.e) - target * (on.r - off.r));
-            if (!std::isfinite(guess)) guess = 0.5;
-            const double step = duty_prev > 0.0 ? 1e-3 : 0.02;
-            if (!solve_duty(on, off, period, target_lin, std::clamp(guess, 1e-3, 0.999), step,
-                            duty))
-                return fail(res, CornerStatus::no_regulation,
-                            "no duty cycle below 100 % gives " + fmt(target, Dimension::current) +
-                                " from " + fmt(vin, Dimension::voltage));
-            w = pwm_wave(on, off, period, duty, true);
-            w.q_on += share_on * dq_used;
-            w.q_off += (1.0 - share_on) * dq_used;
-            w.q2_on += pl.dq2_on;
-            w.q2_off += pl.dq2_off;
-            two_state = false;
-            if (capacitor && !w.dcm) {
+            // With a capacitor the two-state solution replaces the single-state one; once a pass
+            // has it, the next starts from its duty and needs no single-state solve.
+            auto two_state_solve = [&](double center, double half) {
                 const double den = r_load + cap_esr;
                 const Output2 o{r_load / den, r_load * cap_esr / den, cap_esr * v0 / den, r_load,
                                 v0};
@@ -754,32 +746,53 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
                     const Wave2 x = pwm_wave2(a_on, a_off, o, period, dd, false);
                     return (x.q_on + x.q_off) / period - target_lin;
                 };
-                double da = std::max(d_min, duty - 0.02), db = std::min(d_max, duty + 0.02);
+                double da = std::max(d_min, center - half), db = std::min(d_max, center + half);
                 double fa = g2(da), fb = g2(db);
                 for (int k = 0; k < 8 && fa > 0.0 && da > d_min; ++k)
                     fa = g2(da = std::max(d_min, da - 0.05));
                 for (int k = 0; k < 8 && fb < 0.0 && db < d_max; ++k)
                     fb = g2(db = std::min(d_max, db + 0.05));
-                if (fa <= 0.0 && fb >= 0.0) {
-                    const double d2 = brent_root(g2, da, db, fa, fb, 1e-13, 1e-10 * target, 100);
-                    const Wave2 x = pwm_wave2(a_on, a_off, o, period, d2, true);
-                    if (x.ok && x.i_peak > x.i0) {
-                        duty = d2;
-                        two_state = true;
-                        w.i_valley = x.i0;
-                        w.i_peak = x.i_peak;
-                        w.t_on = d2 * period;
-                        w.t_off = period - w.t_on;
-                        w.t_idle = 0.0;
-                        w.q_on = x.q_on + share_on * dq_used;
-                        w.q2_on = x.q2_on + pl.dq2_on;
-                        w.q_off = x.q_off + (1.0 - share_on) * dq_used;
-                        w.q2_off = x.q2_off + pl.dq2_off;
-                        load_pp2 = x.load_max - x.load_min;
-                        load_q2_2 = x.load_q2 / period;
-                        cap_q2_2 = x.cap_q2 / period;
-                    }
-                }
+                if (!(fa <= 0.0 && fb >= 0.0)) return false;
+                const double d2 = brent_root(g2, da, db, fa, fb, 1e-13, 1e-10 * target, 100);
+                const Wave2 x = pwm_wave2(a_on, a_off, o, period, d2, true);
+                if (!(x.ok && x.i_peak > x.i0)) return false;
+                duty = d2;
+                w.dcm = false;
+                w.i_valley = x.i0;
+                w.i_peak = x.i_peak;
+                w.t_on = d2 * period;
+                w.t_off = period - w.t_on;
+                w.t_idle = 0.0;
+                w.q_on = x.q_on + share_on * dq_used;
+                w.q2_on = x.q2_on + pl.dq2_on;
+                w.q_off = x.q_off + (1.0 - share_on) * dq_used;
+                w.q2_off = x.q2_off + pl.dq2_off;
+                load_pp2 = x.load_max - x.load_min;
+                load_q2_2 = x.load_q2 / period;
+                cap_q2_2 = x.cap_q2 / period;
+                return true;
+            };
+            const bool had_two_state = two_state;
+            two_state = capacitor && had_two_state && two_state_solve(duty_prev, 2e-3);
+            if (!two_state) {
+                // First guess from the averaged model: I·(R1·D + R2·(1 − D)) = E1·D + E2·(1 − D).
+                double guess = duty_prev > 0.0 ? duty_prev
+                                               : (target * off.r - off.e) /
+                                                     ((on.e - off.e) - target * (on.r - off.r));
+                if (!std::isfinite(guess)) guess = 0.5;
+                const double step = duty_prev > 0.0 ? 1e-3 : 0.02;
+                if (!solve_duty(on, off, period, target_lin, std::clamp(guess, 1e-3, 0.999), step,
+                                duty))
+                    return fail(res, CornerStatus::no_regulation,
+                                "no duty cycle below 100 % gives " +
+                                    fmt(target, Dimension::current) + " from " +
+                                    fmt(vin, Dimension::voltage));
+                w = pwm_wave(on, off, period, duty, true);
+                w.q_on += share_on * dq_used;
+                w.q_off += (1.0 - share_on) * dq_used;
+                w.q2_on += pl.dq2_on;
+                w.q2_off += pl.dq2_off;
+                if (capacitor && !w.dcm) two_state = two_state_solve(duty, 0.02);
             }
             duty_prev = duty;
         }

@@ -87,6 +87,9 @@ void BM_CornerPwm(benchmark::State& s) { corner_bench(s, design::ControlMode::pw
 void BM_CornerPwmRollOff(benchmark::State& s) {
     corner_bench(s, design::ControlMode::pwm, 0.9, false);
 }
+void BM_CornerPwmCapacitor(benchmark::State& s) {
+    corner_bench(s, design::ControlMode::pwm, 4.0, true);
+}
 
 void BM_PairHysteretic(benchmark::State& state) {
     const auto d = bench_design(design::ControlMode::hysteretic);
@@ -104,6 +107,7 @@ BENCHMARK(BM_CornerHystereticRollOff);
 BENCHMARK(BM_CornerHystereticCapacitor);
 BENCHMARK(BM_CornerPwm);
 BENCHMARK(BM_CornerPwmRollOff);
+BENCHMARK(BM_CornerPwmCapacitor);
 BENCHMARK(BM_PairHysteretic);
 
 } // namespace
