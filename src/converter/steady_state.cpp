@@ -511,22 +511,70 @@ double core_loss(const parts::InductorModel& l, const Wave& w) {
 // extrapolate on one ratio; steps nearer the tolerance, where the other states' noise shows, only
 // when two successive ratios agree. Never twice in a row (the step after an extrapolation is not
 // part of the geometric sequence).
+// A temperature map can have two balances: a stable one and, above it, an unstable one where
+// leakage (or copper) heats faster than the part sheds heat. Iterated from the ambient, as the
+// part warms from cold, the plain steps reach the stable one; an extrapolation can jump past both.
+// So a jump stays unconfirmed until the map is seen to contract after it, and the caller goes
+// back to where the plain step would have gone (below the stable balance) when it does not.
 struct FixedPointSteps {
     double big = 0.0;   // a step above this extrapolates on one ratio
     double small = 0.0; // a step above this extrapolates on two agreeing ratios
+    double tol = 0.0;   // settled within this
     double d_prev = 0.0, rho_prev = 0.0;
+    bool jumps = true;        // extrapolation allowed (off after going back once)
+    bool unconfirmed = false; // the last extrapolation is not yet confirmed
+    bool seen_after = false;  // one step after it has been seen
+    double d_after = 0.0;     // that step
+    double before_jump = 0.0; // where the plain step would have gone instead
 
     double step(double d, double omega) {
         const double rho = d_prev != 0.0 ? d / d_prev : 0.0;
         const bool geometric = rho > 0.05 && rho < 0.95;
         const bool agreed = rho_prev > 0.0 && std::abs(rho - rho_prev) <= 0.15 * rho;
-        if (geometric && (std::abs(d) > big || (std::abs(d) > small && agreed))) {
+        if (jumps && geometric && (std::abs(d) > big || (std::abs(d) > small && agreed))) {
             d_prev = rho_prev = 0.0;
             return omega * d / (1.0 - rho);
         }
         rho_prev = rho;
         d_prev = d;
         return omega * d;
+    }
+    // x <- x + step, keeping what going back after a jump needs.
+    double next(double x, double d, double omega) {
+        const double plain = x + omega * d;
+        const double moved = x + step(d, omega);
+        if (moved != plain) {
+            unconfirmed = true;
+            seen_after = false;
+            before_jump = plain;
+        }
+        return moved;
+    }
+    // Within the tolerance of the balance: a step below it, and, when the steps shrink with one
+    // sign at ratio rho, the rest of them (d·rho/(1 − rho), the a-posteriori bound of a
+    // contraction) too; steps that do not shrink are no sign of a balance near.
+    bool settled(double d) const {
+        if (!(std::abs(d) < tol)) return false;
+        const double rho = d_prev != 0.0 ? d / d_prev : 0.0;
+        if (rho <= 0.0) return true;
+        return rho < 1.0 && std::abs(d) * rho / (1.0 - rho) < tol;
+    }
+    // True when the steps after a jump grow with one sign: it landed past an unstable balance.
+    bool landed_past(double d) {
+        if (!unconfirmed) return false;
+        if (!seen_after) {
+            seen_after = true;
+            d_after = d;
+            return false;
+        }
+        unconfirmed = false;
+        return d * d_after > 0.0 && std::abs(d) > std::abs(d_after);
+    }
+    void go_back(double& x) {
+        x = before_jump;
+        jumps = false;
+        unconfirmed = false;
+        d_prev = rho_prev = 0.0;
     }
 };
 
@@ -611,7 +659,7 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
     }
     double duty_prev = -1.0;
     double omega = 1.0;
-    FixedPointSteps steps_l{20.0 * temperature_tol, 2.0 * temperature_tol};
+    FixedPointSteps steps_l{20.0 * temperature_tol, 2.0 * temperature_tol, temperature_tol};
     FixedPointSteps steps_j = steps_l;
     const double tol_i = current_tol * target;
     FixedPointSteps steps_q{20.0 * tol_i * period, 2.0 * tol_i * period}; // PWM charge correction
@@ -848,13 +896,38 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
                                     std::abs(w.i_peak - lin_hi) <= tol_i &&
                                     std::abs(i_avg - i_avg_prev) <= tol_i &&
                                     (!capacitor || std::abs(f - f_prev) <= 1e-6 * f);
-        if (std::abs(dl) < temperature_tol && std::abs(dj) < temperature_tol && states_settled) {
+        // Past an unstable balance after a jump (FixedPointSteps): go back below it. A balance
+        // reached right after a jump is kept only where it is stable, the map's slope below one
+        // (copper grows with DCR(T); leakage's growth bounds the diode's, as V_f falls with T).
+        bool back_l = steps_l.landed_past(dl);
+        bool back_j = steps_j.landed_past(dj);
+        const bool settled = steps_l.settled(dl) && steps_j.settled(dj) && states_settled;
+        const bool runaway_l = t_l_new > l.t_max + inductor_runaway_margin;
+        const bool runaway_j = tj_new > diode.tj_max + diode_runaway_margin && leak > p_cond;
+        if (settled || runaway_l || runaway_j) {
+            if (steps_l.unconfirmed) {
+                const double slope =
+                    l.rth * copper * (l.dcr(t_l + 1.0, c.dcr_max) - dcr) / std::max(dcr, 1e-300);
+                back_l = back_l || runaway_l || slope >= 1.0;
+            }
+            if (steps_j.unconfirmed) {
+                const double i_r = diode.leakage(vin, tj);
+                const double growth = i_r > 0.0 ? diode.leakage(vin, tj + 1.0) / i_r - 1.0 : 0.0;
+                back_j = back_j || runaway_j || diode.rth_ja * leak * growth >= 1.0;
+            }
+        }
+        if (back_l || back_j) {
+            if (back_l) steps_l.go_back(t_l);
+            if (back_j) steps_j.go_back(tj);
+            continue;
+        }
+        if (settled) {
             converged = true;
             break;
         }
 
         // Runaway: far beyond any rating, with the feedback that drives it.
-        if (tj_new > diode.tj_max + diode_runaway_margin && leak > p_cond)
+        if (runaway_j)
             return fail(res, CornerStatus::thermal_runaway,
                         "thermal runaway of the diode: its reverse leakage at " +
                             fmt(vin, Dimension::voltage) +
@@ -863,7 +936,7 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
                             " of leakage loss with the junction past " +
                             fmt(diode.tj_max + diode_runaway_margin, Dimension::temperature) +
                             "; rating " + fmt(diode.tj_max, Dimension::temperature) + ")");
-        if (t_l_new > l.t_max + inductor_runaway_margin)
+        if (runaway_l)
             return fail(res, CornerStatus::thermal_runaway,
                         "thermal runaway of the inductor: its losses (" +
                             fmt(copper + core, Dimension::power) + ") heat it past " +
@@ -879,8 +952,8 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
         if (overshoots(dl, steps_l.d_prev) || overshoots(dj, steps_j.d_prev))
             omega = std::max(0.25, 0.5 * omega);
         // Losses are never negative: neither part can sit below ambient.
-        t_l = std::max(amb, t_l + steps_l.step(dl, omega));
-        tj = std::max(amb, tj + steps_j.step(dj, omega));
+        t_l = std::max(amb, steps_l.next(t_l, dl, omega));
+        tj = std::max(amb, steps_j.next(tj, dj, omega));
         if (!std::isfinite(t_l) || !std::isfinite(tj)) break;
         lin_lo = w.i_valley;
         lin_hi = w.i_peak;
