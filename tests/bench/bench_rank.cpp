@@ -128,6 +128,10 @@ BENCHMARK_CAPTURE(rank_example, charger_starter, "two-cell-charger.json", false,
     ->Iterations(1)
     ->Unit(benchmark::kSecond)
     ->UseRealTime();
+BENCHMARK_CAPTURE(rank_example, floodlight_starter, "workshop-floodlight.json", false, false)
+    ->Iterations(1)
+    ->Unit(benchmark::kSecond)
+    ->UseRealTime();
 BENCHMARK_CAPTURE(rank_example, lamp_generated_20000x3000, "reading-lamp.json", true, false)
     ->Iterations(1)
     ->Unit(benchmark::kSecond)

@@ -177,6 +177,19 @@ TEST(DesignFile, TwoCellChargerExampleLoads) {
     EXPECT_NEAR(*d.ambient.min, 273.15, 1e-9);
 }
 
+TEST(DesignFile, FloodlightExampleLoadsWithItsCapacitor) {
+    const Design d = load_design_file(examples / "workshop-floodlight.json");
+    const auto& led = std::get<coilsieve::loads::LedString>(d.load);
+    EXPECT_EQ(led.count, 6);
+    EXPECT_DOUBLE_EQ(led.current, 1.2);
+    EXPECT_EQ(d.control.mode, ControlMode::hysteretic);
+    EXPECT_NEAR(band_amps(d.control, 1.2), 0.48, 1e-12);
+    ASSERT_TRUE(d.output_capacitor.has_value());
+    EXPECT_DOUBLE_EQ(d.output_capacitor->capacitance, 2.2e-6);
+    EXPECT_DOUBLE_EQ(d.output_capacitor->esr, 0.03);
+    EXPECT_DOUBLE_EQ(*d.limits.f_sw_max, 600e3);
+}
+
 TEST(DesignFile, DefaultsAreRecorded) {
     const Design d = read_design(charger_json(), "charger.json");
     EXPECT_EQ(d.name, "charger"); // from the file name

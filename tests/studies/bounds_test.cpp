@@ -196,7 +196,8 @@ TEST_P(Bounds, StretchBoundsHoldAtEveryFeasibleSetting) {
 }
 
 INSTANTIATE_TEST_SUITE_P(Examples, Bounds,
-                         ::testing::Values("reading-lamp.json", "two-cell-charger.json"));
+                         ::testing::Values("reading-lamp.json", "two-cell-charger.json",
+                                           "workshop-floodlight.json"));
 
 // With PWM the peak is at most I + ΔI (CCM: the valley is below the mean; DCM: the charge
 // I·T >= L·peak²/(2g), Erickson & Maksimović 2nd ed. ch. 5), not the saturation ceiling, so the

@@ -145,4 +145,5 @@ TEST(StarterCatalogPareto, FourObjectiveSetEqualsBruteForce) {
 }
 
 INSTANTIATE_TEST_SUITE_P(Examples, StarterCatalog,
-                         ::testing::Values("reading-lamp.json", "two-cell-charger.json"));
+                         ::testing::Values("reading-lamp.json", "two-cell-charger.json",
+                                           "workshop-floodlight.json"));
