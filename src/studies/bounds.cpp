@@ -147,7 +147,19 @@ public:
             if (!(i_target > 0.0) || !(k.vin > 0.0)) continue;
             // Ceilings first: the peak, then the voltages it implies. L(i) falls with |i|, so along
             // a ramp L >= L(peak) >= L(peak ceiling); two passes tighten the pair.
-            const double von_ub = std::max(0.0, k.vin - k.v0);
+            // The load's voltage v0 + r·i_load. With a capacitor across the load, i_load is the
+            // inductor current filtered, and a feasible pair keeps its peak-to-peak within the
+            // load-ripple limit around the mean: i_load lies within mean ± limit·I (the engine's
+            // swing r_ripple·(i − I) is at most r times the load's share of it). Without one it
+            // is the inductor current itself.
+            double load_lo = 0.0, load_hi = INFINITY;
+            if (p.capacitor && lim.load_ripple) {
+                load_lo = std::max(0.0, k.current_lb() - *lim.load_ripple * i_target);
+                load_hi = i_target / k.current_share + *lim.load_ripple * i_target;
+            }
+            auto vload_lb = [&](double i) { return k.v0 + k.r * std::max(i, load_lo); };
+            auto vload_ub = [&](double i) { return k.v0 + k.r * std::min(i, load_hi); };
+            const double von_ub = std::max(0.0, k.vin - vload_lb(0.0));
             double b1 = 0.0, b2 = 0.0;
             double peak_ub = std::max(0.0, peak_cap_);
             double l_lo = p.l_lo_cap;
@@ -164,15 +176,14 @@ public:
                     // below the mean, and in DCM the charge I·T >= L_lo·peak²/(2·g_ub) gives
                     // peak <= sqrt(2·I·ΔI) <= I + ΔI: either way peak <= I + ΔI.
                     const double voff =
-                        k.v0 + k.r * peak_ub + drop_max(peak_ub, k.ambient) + peak_ub * p.r_off_ub;
+                        vload_ub(peak_ub) + drop_max(peak_ub, k.ambient) + peak_ub * p.r_off_ub;
                     peak_ub = std::min(peak_ub, i_target / k.current_share +
                                                     volt_second_rate(von_ub, voff) / (l_lo * x1));
                 }
                 l_lo = std::max(l_lo, m_.inductance(peak_ub, k.l_scale));
             }
-            voff_ub = k.v0 + k.r * peak_ub + drop_max(peak_ub, k.ambient) + peak_ub * p.r_off_ub;
-            const double von_lb =
-                std::max(0.0, k.vin - (k.v0 + k.r * peak_ub) - peak_ub * p.r_on_ub);
+            voff_ub = vload_ub(peak_ub) + drop_max(peak_ub, k.ambient) + peak_ub * p.r_off_ub;
+            const double von_lb = std::max(0.0, k.vin - vload_ub(peak_ub) - peak_ub * p.r_on_ub);
             const double g_ub = volt_second_rate(von_ub, voff_ub);
 
             double i_lb = 0.0, i_ub = 0.0, peak_lb = 0.0, valley_lb = 0.0;
@@ -187,7 +198,7 @@ public:
                 const double l_hi = m_.inductance(valley_lb, k.l_scale);
                 // V_off = v0 + (r + R_s + DCR)·i + V_f(i) >= its value at the valley (V_f with this
                 // pair's diode, else 0).
-                const double voff_lb = std::max(0.0, k.v0 + valley_lb * (k.r + p.r_off_lb) +
+                const double voff_lb = std::max(0.0, vload_lb(valley_lb) + valley_lb * p.r_off_lb +
                                                          drop_min(valley_lb, k.ambient));
                 const double g_lb = volt_second_rate(von_lb, voff_lb);
                 peak_lb = i_target + b1 / 2.0 + td * von_lb / l_hi;
@@ -196,9 +207,10 @@ public:
                 // value at the valley; over the overshoot past I + b/2 the series drop is at least
                 // that current's (the load's own drop only the valley's: a capacitor carries the
                 // ripple).
-                const double von_ub_ramp = std::max(0.0, von_ub - valley_lb * (k.r + p.r_on_lb));
+                const double von_ub_ramp =
+                    std::max(0.0, k.vin - vload_lb(valley_lb) - valley_lb * p.r_on_lb);
                 const double von_ub_over =
-                    std::max(0.0, von_ub - valley_lb * k.r - (i_target + b1 / 2.0) * p.r_on_lb);
+                    std::max(0.0, k.vin - vload_lb(valley_lb) - (i_target + b1 / 2.0) * p.r_on_lb);
                 const double di_ub = b2 + td * (von_ub_over + voff_ub) / l_lo;
                 // t_on + t_off <= L_hi·ΔI·(1/Von_min + 1/Voff_min); DCM adds a rest of at most t_d.
                 if (g_lb > 0.0 && di_ub > 0.0)
@@ -229,14 +241,14 @@ public:
                 i_ub = i_target / k.current_share;
                 const double di_ub = g_ub / (l_lo * x1);
                 valley_lb = std::max(0.0, i_lb - di_ub);
-                const double g_lb = volt_second_rate(von_lb, std::max(0.0, k.v0));
+                const double g_lb = volt_second_rate(von_lb, std::max(0.0, vload_lb(0.0)));
                 const double di_ccm = g_lb / (p.l_hi * x2);
                 di_lb = std::min(di_ccm, std::sqrt(2.0 * i_lb * di_ccm));
                 dcm_certain = di_ccm > 2.0 * i_ub;
                 if (valley_lb > 0.0) {
                     // CCM certain: the off-voltage never falls below its value at the valley.
-                    const double voff_lb =
-                        k.v0 + valley_lb * (k.r + p.r_off_lb) + drop_min(valley_lb, k.ambient);
+                    const double voff_lb = vload_lb(valley_lb) + valley_lb * p.r_off_lb +
+                                           drop_min(valley_lb, k.ambient);
                     di_lb = std::max(di_lb, volt_second_rate(von_lb, voff_lb) / (p.l_hi * x2));
                 }
                 // The mean of near-linear ramps sits mid-way between valley and peak (CCM), and
