@@ -676,6 +676,8 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
     double t_l_new = amb, tj_new = amb;
     bool converged = false;
     int iterations = 0;
+    // The last two steps of each temperature: still rising when the loop gives up?
+    double dj_last = 0.0, dj_before = 0.0, dl_last = 0.0, dl_before = 0.0;
     // PWM with a capacitor: the two-state solution's load ripple and mean squares (A², per s).
     bool two_state = false;
     double dq_used = 0.0; // A·s, relaxed charge correction of the PWM roll-off
@@ -892,6 +894,10 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
 
         const double dl = t_l_new - t_l;
         const double dj = tj_new - tj;
+        dj_before = dj_last;
+        dj_last = dj;
+        dl_before = dl_last;
+        dl_last = dl;
         const bool states_settled = std::abs(w.i_valley - lin_lo) <= tol_i &&
                                     std::abs(w.i_peak - lin_hi) <= tol_i &&
                                     std::abs(i_avg - i_avg_prev) <= tol_i &&
@@ -963,13 +969,27 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
     (void)iterations;
 
     if (!converged) {
-        if (tj_new > tj && leak > 0.5 * (tj_new - amb) / std::max(diode.rth_ja, 1e-12))
+        // Still heating at a step that hardly shrinks: past (or at) the edge where the stable and
+        // unstable balances merge, the temperature creeps through where the balance was and then
+        // runs away. Only leakage (diode) or DCR(T) (inductor) can drive it there.
+        auto creeping = [](double step, double before) {
+            return step > 0.0 && step >= 0.9 * before;
+        };
+        if (creeping(dj_last, dj_before) ||
+            (dj_last > 0.0 && leak > 0.5 * (tj_new - amb) / std::max(diode.rth_ja, 1e-12)))
             return fail(res, CornerStatus::thermal_runaway,
                         "thermal runaway of the diode: the junction keeps heating through its "
                         "reverse leakage at " +
                             fmt(vin, Dimension::voltage) + " (" +
                             fmt(tj_new, Dimension::temperature) + " and rising, rating " +
-                            fmt(diode.tj_max, Dimension::temperature) + ")");
+                            fmt(diode.tj_max, Dimension::temperature) +
+                            "): no balance, or one too close to runaway to hold");
+        if (creeping(dl_last, dl_before))
+            return fail(res, CornerStatus::thermal_runaway,
+                        "thermal runaway of the inductor: its copper loss rises with its "
+                        "temperature as fast as it sheds heat (" +
+                            fmt(t_l_new, Dimension::temperature) + " and rising, rating " +
+                            fmt(l.t_max, Dimension::temperature) + ")");
         return fail(res, CornerStatus::no_convergence,
                     "the thermal and electrical fixed point did not settle in " +
                         std::to_string(max_iterations) + " iterations (inductor at " +

@@ -259,6 +259,37 @@ TEST(Thermal, LeakySchottkyAtHighReverseVoltageRunsAway) {
     EXPECT_GT(ok.tj_diode, 358.15);
 }
 
+TEST(Thermal, JunctionNearTheRunawayEdgeSettlesOrRunsAwayNeverNeither) {
+    // Where the leakage is just enough for the junction's two balances (stable and unstable) to
+    // merge and vanish, the temperature creeps up ever more slowly past where the balance was
+    // before it runs away (a saddle-node bottleneck). Each case must come out as a balance or a
+    // runaway; "did not settle" would leave the designer without the answer. The edge is found
+    // by bisection on the outcome, then approached from both sides.
+    auto d = sink_design(48.0, 12.0, 0.5, 1.0);
+    d.ambient.max = 358.15;
+    auto diode = schottky();
+    diode.rth_ja = 120.0;
+    auto run = [&](double ir) {
+        diode.ir_ref = ir;
+        return evaluate_corner(d, drum(47e-6, 0.05, 3.0), diode,
+                               corner_for(d, 48.0, 12.0, 0.5, 1.0, 358.15), band_setting(0.3));
+    };
+    double lo = 2e-6, hi = 2e-3;
+    ASSERT_EQ(run(lo).status, CornerStatus::ok);
+    ASSERT_EQ(run(hi).status, CornerStatus::thermal_runaway);
+    for (int n = 0; n < 60; ++n) {
+        const double mid = std::sqrt(lo * hi);
+        (run(mid).status == CornerStatus::ok ? lo : hi) = mid;
+    }
+    for (double f : {1e-6, 1e-5, 1e-4, 1e-3, 1e-2, 3e-2}) {
+        const auto below = run(lo * (1.0 - f));
+        EXPECT_EQ(below.status, CornerStatus::ok) << "below the edge by " << f << ": " << below.reason;
+        const auto above = run(hi * (1.0 + f));
+        EXPECT_EQ(above.status, CornerStatus::thermal_runaway)
+            << "above the edge by " << f << ": " << above.reason;
+    }
+}
+
 TEST(Thermal, InductorTemperatureIsItsOwnFixedPoint) {
     auto d = sink_design(24.0, 12.0, 0.5, 1.5);
     const auto l = drum(47e-6, 0.15, 3.0);
