@@ -556,7 +556,8 @@ struct FixedPointSteps {
     bool settled(double d) const {
         if (!(std::abs(d) < tol)) return false;
         const double rho = d_prev != 0.0 ? d / d_prev : 0.0;
-        if (rho <= 0.0) return true;
+        // Steps at the round-off floor of the electrical solve carry no ratio worth reading.
+        if (rho <= 0.0 || std::abs(d) < 1e-3 * tol) return true;
         return rho < 1.0 && std::abs(d) * rho / (1.0 - rho) < tol;
     }
     // True when the steps after a jump grow with one sign: it landed past an unstable balance.
@@ -973,7 +974,7 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
         // unstable balances merge, the temperature creeps through where the balance was and then
         // runs away. Only leakage (diode) or DCR(T) (inductor) can drive it there.
         auto creeping = [](double step, double before) {
-            return step > 0.0 && step >= 0.9 * before;
+            return step > 1e-3 * temperature_tol && step >= 0.9 * before;
         };
         if (creeping(dj_last, dj_before) ||
             (dj_last > 0.0 && leak > 0.5 * (tj_new - amb) / std::max(diode.rth_ja, 1e-12)))
