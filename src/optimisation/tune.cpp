@@ -64,20 +64,40 @@ double to_unit(const SettingRange& r, double x) {
 // plus one for any other limit. Feasibility itself is the evaluation's own verdict.
 struct ConstraintMap {
     std::map<std::string, std::size_t> index;
+    std::vector<const std::string*> names; // by slot (keys of `index`, which stay put)
+    // A pair's checks come in the same order at every setting: each position remembers its slot,
+    // confirmed by one name comparison instead of a map search per check.
+    std::vector<std::size_t> slot_at;
 
     void learn(const converter::PairEvaluation& e) {
-        for (const auto& c : e.checks) index.emplace(c.limit, 0);
-        for (const auto& c : e.violations) index.emplace(c.limit, 0);
-        std::size_t i = 0;
-        for (auto& [name, k] : index) k = i++;
+        bool added = false;
+        for (const auto& c : e.checks) added = index.try_emplace(c.limit, 0).second || added;
+        for (const auto& c : e.violations) added = index.try_emplace(c.limit, 0).second || added;
+        if (!added) return;
+        names.clear();
+        for (auto& [name, k] : index) {
+            k = names.size();
+            names.push_back(&name);
+        }
+        slot_at.clear();
     }
     std::size_t size() const { return index.size() + 1; }
 
-    std::vector<double> constraints(const converter::PairEvaluation& e) const {
+    std::size_t slot(const converter::LimitCheck& c, std::size_t pos) {
+        if (pos < slot_at.size() && slot_at[pos] < names.size() && *names[slot_at[pos]] == c.limit)
+            return slot_at[pos];
+        const auto it = index.find(c.limit);
+        const std::size_t k = it == index.end() ? index.size() : it->second;
+        if (pos >= slot_at.size()) slot_at.resize(pos + 1, names.size());
+        slot_at[pos] = k;
+        return k;
+    }
+
+    std::vector<double> constraints(const converter::PairEvaluation& e) {
         std::vector<double> g(size(), -1.0);
+        std::size_t pos = 0;
         auto apply = [&](const converter::LimitCheck& c) {
-            auto it = index.find(c.limit);
-            std::size_t k = it == index.end() ? index.size() : it->second;
+            const std::size_t k = slot(c, pos++);
             g[k] = std::max(g[k], margin_target - safe_margin(c.margin));
         };
         for (const auto& c : e.checks) apply(c);
