@@ -21,26 +21,11 @@ constexpr double copper_alpha20 = 0.00393;       // 1/K
 constexpr double t20 = 293.15;                   // K
 constexpr double ac_reference_frequency = 100e3; // Hz, where ac_factor is stated
 
-double pow_p(double x, double p) {
-    // The two catalog shapes use integer exponents: avoid std::pow on the hot path.
-    if (p == 6.0) {
-        const double x2 = x * x;
-        return x2 * x2 * x2;
-    }
-    if (p == 2.0) return x * x;
-    return std::pow(x, p);
-}
-
 [[noreturn]] void bad_part(const Inductor& part, const std::string& what) {
     throw std::invalid_argument("inductor '" + part.id + "': " + what);
 }
 
 } // namespace
-
-double InductorModel::inductance(double i, double l_scale) const {
-    const double x = std::abs(i) / isat;
-    return l0 * l_scale / (1.0 + rolloff_a * pow_p(x, rolloff_p));
-}
 
 double InductorModel::dcr(double temperature, bool use_max) const {
     // IEC 60028: R(T) = R20·(1 + 0.00393·(T − 20 °C)), R20 from the value stated at dcr_t0.

@@ -3,6 +3,8 @@
 
 #include "parts/inductor.hpp"
 
+#include <cmath>
+
 namespace coilsieve::parts {
 
 struct InductorModel {
@@ -21,14 +23,29 @@ struct InductorModel {
     double rth = 0.0;         // K/W, hot spot to ambient, from the rated rise
     double t_max = 398.15;    // K
 
-    // Inductance at current i, times l_scale (tolerance corner).
-    double inductance(double i, double l_scale = 1.0) const;
+    // Inductance at current i, times l_scale (tolerance corner). Inline: the engine calls it in
+    // its innermost loops.
+    double inductance(double i, double l_scale = 1.0) const {
+        const double x = std::abs(i) / isat;
+        return l0 * l_scale / (1.0 + rolloff_a * rolloff_power(x));
+    }
     // DCR at temperature T (K): IEC 60028 copper, alpha20 = 0.00393 /K.
     double dcr(double temperature, bool use_max = false) const;
     // Resistance the ripple current sees at frequency f (Hz) and temperature T.
     double r_ac(double frequency, double temperature, bool use_max = false) const;
     // Core loss (W) for a triangular current ripple delta_i (A p-p) at f with duty D (iGSE).
     double core_loss(double delta_i, double frequency, double duty) const;
+
+private:
+    // x^rolloff_p; the two catalog shapes use integer exponents, so no std::pow for them.
+    double rolloff_power(double x) const {
+        if (rolloff_p == 6.0) {
+            const double x2 = x * x;
+            return x2 * x2 * x2;
+        }
+        if (rolloff_p == 2.0) return x * x;
+        return std::pow(x, rolloff_p);
+    }
 };
 
 InductorModel make_model(const Inductor& part);
