@@ -286,6 +286,15 @@ public:
                 t_l = k.ambient + m_.rth * (copper + core);
             }
             if (t_l > t_l_bound_) close("t_inductor");
+            // With CCM certain the diode conducts for at least the volt-second share of the
+            // period; beyond the largest share its junction can balance at, it cannot.
+            if (diode_bound_ != nullptr && valley_lb > 0.0 && von_lb > 0.0) {
+                const double off = von_lb / (von_lb + voff_ub);
+                for (const auto& st : diode_bound_->settling)
+                    if (st.vin == k.vin && st.ambient == k.ambient && st.current == k.current &&
+                        off > st.share)
+                        close("tj_max");
+            }
             if (!k.nominal) continue;
             // Switch transitions (Mohan, Undeland, Robbins 3rd ed. §2-7), gate and C_oss.
             const double e_sw = 0.5 * k.vin * (valley_lb * sw.rise_time + peak_lb * sw.fall_time) +
@@ -465,6 +474,9 @@ DiodeBound diode_bound(const ScreenContext& c, const parts::Diode& diode,
     const double tj_bound = lim.tj_max ? std::min(m.tj_max, *lim.tj_max) : m.tj_max;
     double loss = 0.0, e_sw = 0.0, w_sum = 0.0;
     for (const auto& k : c.corners) {
+        if (k.vin > 0.0 && k.current > 0.0)
+            b.settling.push_back({k.vin, k.ambient, k.current,
+                                  JunctionBalance(k, m, tj_bound).largest_settling_share()});
         if (!k.nominal) continue;
         const double w = std::max(0.0, k.weight);
         w_sum += w;

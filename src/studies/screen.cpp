@@ -137,6 +137,28 @@ double JunctionBalance::least_heating(double off) const {
     return trivial; // no balance below the limit: infeasible, any floor holds
 }
 
+bool JunctionBalance::can_balance(double off) const {
+    if (t_.size() < 2 || !(rth_ > 0.0)) return true;
+    const double q = std::max(0.0, off) * current_;
+    const double tol = converter::temperature_tolerance;
+    for (std::size_t n = 0; n + 1 < t_.size(); ++n)
+        if (ambient_ + rth_ * (q * std::min(vf_[n], vf_[n + 1]) + leak_[n]) <= t_[n + 1] + tol)
+            return true;
+    return false;
+}
+
+double JunctionBalance::largest_settling_share() const {
+    // More conduction heats every cell more, so the admissible shares form an interval [0, s].
+    if (can_balance(1.0)) return 1.0;
+    if (!can_balance(0.0)) return -1.0;
+    double lo = 0.0, hi = 1.0;
+    for (int n = 0; n < 40; ++n) {
+        const double mid = 0.5 * (lo + hi);
+        (can_balance(mid) ? lo : hi) = mid;
+    }
+    return lo;
+}
+
 double ramp_mean_share(double density_ratio) {
     const double q = std::sqrt(std::clamp(density_ratio, 0.0, 1.0));
     return q / (1.0 + q);

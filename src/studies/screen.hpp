@@ -95,6 +95,10 @@ public:
     JunctionBalance() = default;
     JunctionBalance(const EnvelopeCorner& k, const parts::DiodeModel& m, double tj_bound);
     double least_heating(double off) const; // W
+    // Whether some cell admits a balance with conduction over share `off` (false: the junction
+    // passes its limit or runs away), and the largest share that still does (−1: none does).
+    bool can_balance(double off) const;
+    double largest_settling_share() const;
     const std::string& corner() const { return corner_; }
 
 private:

@@ -131,6 +131,37 @@ TEST(JunctionBalance, HeatingFloorIsTheRiseToTheFirstBalance) {
     }
 }
 
+// The largest conduction share at which the junction can still balance (used to close pairs
+// whose volt-second share is above it): beyond it the dense scan of the same map finds no balance
+// below the limit (the cells may only be generous), and 0.01 below it (the cells' width, 0.6 K,
+// seen as a share) the scan finds one.
+TEST(JunctionBalance, LargestSettlingShareSeparatesBalanceFromRunaway) {
+    const auto k = corner();
+    const double tj_bound = 398.15;
+    const double i = k.current_lb();
+    const double duty = (k.v0 + k.r * k.current) / k.vin;
+    auto scan_balances = [&](const parts::DiodeModel& m, double off) {
+        for (int n = 0; n <= 200000; ++n) {
+            const double t = k.ambient + (tj_bound - k.ambient) * n / 200000.0;
+            const double heat = off * i * m.vf(i, t) + m.leakage(k.vin, t) * k.vin * duty;
+            if (k.ambient + m.rth_ja * heat <= t) return true;
+        }
+        return false;
+    };
+    for (double ir : {3e-5, 2e-4, 5e-4}) {
+        auto m = schottky(ir);
+        m.rth_ja = 150.0;
+        const studies::JunctionBalance balance(k, m, tj_bound);
+        const double s = balance.largest_settling_share();
+        ASSERT_GT(s, 0.0) << "ir " << ir;
+        ASSERT_LT(s, 1.0) << "ir " << ir << ": the case should run away at full conduction";
+        EXPECT_TRUE(balance.can_balance(s));
+        EXPECT_FALSE(balance.can_balance(std::min(1.0, s + 1e-6)));
+        EXPECT_FALSE(scan_balances(m, std::min(1.0, s + 1e-6))) << "ir " << ir;
+        EXPECT_TRUE(scan_balances(m, s - 0.01)) << "ir " << ir;
+    }
+}
+
 // The least-mean lemma behind ramp_mean_share, checked by construction: the two-level density it
 // names reaches the share exactly, and no density within the same limits (random piecewise
 // constant ones on 64 steps) has a lower mean.
