@@ -117,7 +117,7 @@ public:
         const double floor_off = duty_slack * (1.0 - duty);
         if (!(off > floor_off)) return 0.0;
         for (const auto& b : diode_bound_->nominal)
-            if (b.corner() == k.name)
+            if (b.point() == operating_point(k))
                 return std::max(0.0, b.least_heating(off) - b.least_heating(floor_off));
         return 0.0;
     }
@@ -291,9 +291,7 @@ public:
             if (diode_bound_ != nullptr && valley_lb > 0.0 && von_lb > 0.0) {
                 const double off = von_lb / (von_lb + voff_ub);
                 for (const auto& st : diode_bound_->settling)
-                    if (st.vin == k.vin && st.ambient == k.ambient && st.current == k.current &&
-                        off > st.share)
-                        close("tj_max");
+                    if (st.point == operating_point(k) && off > st.share) close("tj_max");
             }
             if (!k.nominal) continue;
             // Switch transitions (Mohan, Undeland, Robbins 3rd ed. §2-7), gate and C_oss.
@@ -475,8 +473,8 @@ DiodeBound diode_bound(const ScreenContext& c, const parts::Diode& diode,
     double loss = 0.0, e_sw = 0.0, w_sum = 0.0;
     for (const auto& k : c.corners) {
         if (k.vin > 0.0 && k.current > 0.0)
-            b.settling.push_back({k.vin, k.ambient, k.current,
-                                  JunctionBalance(k, m, tj_bound).largest_settling_share()});
+            b.settling.push_back(
+                {operating_point(k), JunctionBalance(k, m, tj_bound).largest_settling_share()});
         if (!k.nominal) continue;
         const double w = std::max(0.0, k.weight);
         w_sum += w;

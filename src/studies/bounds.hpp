@@ -60,10 +60,11 @@ struct DiodeBound {
     double e_switch = 0.0;    // J per cycle of junction-charge loss at the nominal Vin
     double qrr_per_amp = 0.0; // C/A: recovery charge per ampere of forward current
     std::vector<JunctionBalance> nominal; // its heating balance at each nominal corner
-    // At each corner of the design (vin, ambient, current), the largest share of the period the
-    // diode can conduct and still balance below its limit (JunctionBalance).
+    // At each operating point of the design, the largest share of the period the diode can
+    // conduct and still balance below its limit (JunctionBalance).
     struct Settling {
-        double vin = 0.0, ambient = 0.0, current = 0.0, share = 1.0;
+        OperatingPoint point;
+        double share = 1.0;
     };
     std::vector<Settling> settling;
 };

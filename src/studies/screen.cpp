@@ -108,7 +108,7 @@ bool junction_can_settle(const EnvelopeCorner& k, const parts::DiodeModel& m, do
 
 JunctionBalance::JunctionBalance(const EnvelopeCorner& k, const parts::DiodeModel& m,
                                  double tj_bound)
-    : corner_(k.name), ambient_(k.ambient), rth_(m.rth_ja), current_(k.current_lb()) {
+    : point_(operating_point(k)), ambient_(k.ambient), rth_(m.rth_ja), current_(k.current_lb()) {
     if (k.vin <= 0.0 || k.current <= 0.0) return;
     constexpr int cells = 128; // a cell's width over Rth is what the floor may give away
     const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
@@ -122,29 +122,32 @@ JunctionBalance::JunctionBalance(const EnvelopeCorner& k, const parts::DiodeMode
     }
 }
 
+OperatingPoint operating_point(const EnvelopeCorner& k) {
+    return {k.vin, k.ambient, k.current, k.v0, k.r};
+}
+
+std::size_t JunctionBalance::first_balancing_cell(double q) const {
+    const double tol = converter::temperature_tolerance;
+    for (std::size_t n = 0; n + 1 < t_.size(); ++n)
+        if (ambient_ + rth_ * (q * std::min(vf_[n], vf_[n + 1]) + leak_[n]) <= t_[n + 1] + tol)
+            return n;
+    return t_.size();
+}
+
 double JunctionBalance::least_heating(double off) const {
     if (t_.empty()) return 0.0;
     const double q = std::max(0.0, off) * current_;
     // V_f is concave in temperature (least at an end), leakage rises with it.
     const double trivial = q * std::min(vf_.front(), vf_.back()) + leak_.front();
     if (!(rth_ > 0.0)) return trivial;
-    const double tol = converter::temperature_tolerance;
-    for (std::size_t n = 0; n + 1 < t_.size(); ++n) {
-        const double heat = q * std::min(vf_[n], vf_[n + 1]) + leak_[n];
-        if (ambient_ + rth_ * heat <= t_[n + 1] + tol)
-            return std::max(trivial, (t_[n] - ambient_ - tol) / rth_);
-    }
-    return trivial; // no balance below the limit: infeasible, any floor holds
+    const std::size_t n = first_balancing_cell(q);
+    if (n == t_.size()) return trivial; // no balance below the limit: infeasible, any floor holds
+    return std::max(trivial, (t_[n] - ambient_ - converter::temperature_tolerance) / rth_);
 }
 
 bool JunctionBalance::can_balance(double off) const {
     if (t_.size() < 2 || !(rth_ > 0.0)) return true;
-    const double q = std::max(0.0, off) * current_;
-    const double tol = converter::temperature_tolerance;
-    for (std::size_t n = 0; n + 1 < t_.size(); ++n)
-        if (ambient_ + rth_ * (q * std::min(vf_[n], vf_[n + 1]) + leak_[n]) <= t_[n + 1] + tol)
-            return true;
-    return false;
+    return first_balancing_cell(std::max(0.0, off) * current_) < t_.size();
 }
 
 double JunctionBalance::largest_settling_share() const {

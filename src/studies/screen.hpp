@@ -90,6 +90,15 @@ JunctionFloor junction_floor(const EnvelopeCorner& k, const parts::DiodeModel& m
 // can balance, and P no lower than the rise there over Rth: V_f is taken near the junction's own
 // temperature instead of at its limit. Tabulated once per diode and corner on cells of [ambient,
 // tj_bound]; each cell is bounded by monotone pieces as in junction_can_settle.
+// What a diode's junction tables depend on at a corner: the supply, the ambient and the load point
+// (its current, v0 and r set the duty). Corners of different inductance tolerance share it; two
+// points of a charge profile at the same current do not.
+struct OperatingPoint {
+    double vin = 0.0, ambient = 0.0, current = 0.0, v0 = 0.0, r = 0.0;
+    bool operator==(const OperatingPoint&) const = default;
+};
+OperatingPoint operating_point(const EnvelopeCorner& k);
+
 class JunctionBalance {
 public:
     JunctionBalance() = default;
@@ -99,10 +108,13 @@ public:
     // passes its limit or runs away), and the largest share that still does (−1: none does).
     bool can_balance(double off) const;
     double largest_settling_share() const;
-    const std::string& corner() const { return corner_; }
+    const OperatingPoint& point() const { return point_; }
 
 private:
-    std::string corner_;
+    // The first cell where heating `q`·V_f + leakage can meet the temperature (t_.size(): none).
+    std::size_t first_balancing_cell(double q) const;
+
+    OperatingPoint point_;
     double ambient_ = 0.0, rth_ = 0.0, current_ = 0.0;
     std::vector<double> t_, vf_, leak_; // cell edges, V_f(I, t) and leakage power there
 };

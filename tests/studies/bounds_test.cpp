@@ -241,3 +241,48 @@ TEST(BoundsPwm, AverageCurrentIsTheTargetAtEveryCorner) {
             }
     EXPECT_GT(corners, 1000u);
 }
+
+// A charge profile has points at the same supply, ambient and current but a different load
+// voltage (start and end of constant current): the diode's duty, leakage and so the largest
+// conduction share it can balance at differ, and each point must keep its own.
+TEST(BoundsJunction, ChargeProfilePointsKeepTheirOwnSettlingShare) {
+    Case s("two-cell-charger.json");
+    const studies::EnvelopeCorner* start = nullptr;
+    const studies::EnvelopeCorner* end = nullptr;
+    for (const auto& k : s.ctx.corners) {
+        if (k.name == "cc-start vin-nom hot") start = &k;
+        if (k.name == "cc-end vin-nom hot") end = &k;
+    }
+    ASSERT_NE(start, nullptr);
+    ASSERT_NE(end, nullptr);
+    ASSERT_EQ(start->current, end->current);
+    ASSERT_NE(start->v0, end->v0);
+    EXPECT_FALSE(studies::operating_point(*start) == studies::operating_point(*end));
+    // A leaky Schottky of the catalog, where the shares are below one.
+    const auto& k = starter();
+    bool compared = false;
+    for (const auto& di : k.diodes) {
+        if (di.technology != parts::DiodeTechnology::schottky) continue;
+        const auto dm = parts::make_model(di);
+        const auto db = studies::diode_bound(s.ctx, di, dm, s.scales);
+        const double tj = s.d.limits.tj_max ? std::min(dm.tj_max, *s.d.limits.tj_max) : dm.tj_max;
+        const double a = studies::JunctionBalance(*start, dm, tj).largest_settling_share();
+        const double b = studies::JunctionBalance(*end, dm, tj).largest_settling_share();
+        if (!(a < 1.0 && b < 1.0 && a != b)) continue;
+        int found = 0;
+        for (const auto& st : db.settling) {
+            if (st.point == studies::operating_point(*start)) {
+                EXPECT_EQ(st.share, a) << di.id;
+                ++found;
+            }
+            if (st.point == studies::operating_point(*end)) {
+                EXPECT_EQ(st.share, b) << di.id;
+                ++found;
+            }
+        }
+        EXPECT_EQ(found, 2) << di.id;
+        compared = true;
+        break;
+    }
+    EXPECT_TRUE(compared) << "no catalog Schottky with distinct shares below one";
+}
