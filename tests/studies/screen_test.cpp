@@ -10,6 +10,7 @@
 #include <cmath>
 #include <cstdint>
 #include <gtest/gtest.h>
+#include <optional>
 
 using namespace coilsieve;
 
@@ -42,18 +43,24 @@ studies::EnvelopeCorner corner() {
     return k;
 }
 
-// The same map on 20,000 points: does it reach T somewhere below the limit?
-bool scan_settles(const studies::EnvelopeCorner& k, const parts::DiodeModel& m, double tj_bound) {
+// The same heating map with conduction over share `off`, scanned on `points` temperatures of
+// [ambient, tj_bound]: the first temperature the map reaches, if any.
+std::optional<double> first_balance(const studies::EnvelopeCorner& k, const parts::DiodeModel& m,
+                                    double off, double tj_bound, int points) {
     const double i = k.current_lb();
     const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
-    for (int n = 0; n <= 20000; ++n) {
-        const double t = k.ambient + (tj_bound - k.ambient) * n / 20000.0;
-        const double heat =
-            k.ambient + m.rth_ja * (studies::duty_slack * (1.0 - duty) * i * m.vf(i, t) +
-                                    m.leakage(k.vin, t) * k.vin * duty);
-        if (heat <= t) return true;
+    for (int n = 0; n <= points; ++n) {
+        const double t = k.ambient + (tj_bound - k.ambient) * n / points;
+        const double heat = off * i * m.vf(i, t) + m.leakage(k.vin, t) * k.vin * duty;
+        if (k.ambient + m.rth_ja * heat <= t) return t;
     }
-    return false;
+    return std::nullopt;
+}
+
+// With the screens' conduction share, on 20,000 points: does it reach T below the limit?
+bool scan_settles(const studies::EnvelopeCorner& k, const parts::DiodeModel& m, double tj_bound) {
+    const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
+    return first_balance(k, m, studies::duty_slack * (1.0 - duty), tj_bound, 20000).has_value();
 }
 
 } // namespace
@@ -109,15 +116,7 @@ TEST(JunctionBalance, HeatingFloorIsTheRiseToTheFirstBalance) {
     const studies::JunctionBalance balance(k, m, tj_bound);
     double previous = 0.0;
     for (double off : {0.3, studies::duty_slack * (1.0 - duty), 0.6}) {
-        double t_star = tj_bound;
-        for (int n = 0; n <= 200000; ++n) {
-            const double t = k.ambient + (tj_bound - k.ambient) * n / 200000.0;
-            const double heat = off * i * m.vf(i, t) + m.leakage(k.vin, t) * k.vin * duty;
-            if (k.ambient + m.rth_ja * heat <= t) {
-                t_star = t;
-                break;
-            }
-        }
+        const double t_star = first_balance(k, m, off, tj_bound, 200000).value_or(tj_bound);
         ASSERT_LT(t_star, tj_bound) << "off " << off << ": the case should balance";
         const double p_star = (t_star - k.ambient) / m.rth_ja;
         const double floor = balance.least_heating(off);
@@ -138,15 +137,8 @@ TEST(JunctionBalance, HeatingFloorIsTheRiseToTheFirstBalance) {
 TEST(JunctionBalance, LargestSettlingShareSeparatesBalanceFromRunaway) {
     const auto k = corner();
     const double tj_bound = 398.15;
-    const double i = k.current_lb();
-    const double duty = (k.v0 + k.r * k.current) / k.vin;
     auto scan_balances = [&](const parts::DiodeModel& m, double off) {
-        for (int n = 0; n <= 200000; ++n) {
-            const double t = k.ambient + (tj_bound - k.ambient) * n / 200000.0;
-            const double heat = off * i * m.vf(i, t) + m.leakage(k.vin, t) * k.vin * duty;
-            if (k.ambient + m.rth_ja * heat <= t) return true;
-        }
-        return false;
+        return first_balance(k, m, off, tj_bound, 200000).has_value();
     };
     for (double ir : {3e-5, 2e-4, 5e-4}) {
         auto m = schottky(ir);
