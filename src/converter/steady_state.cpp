@@ -35,7 +35,9 @@ constexpr int max_iterations = 50;
 constexpr double diode_runaway_margin = 100.0;    // K beyond tj_max: leakage has run away
 constexpr double inductor_runaway_margin = 300.0; // K beyond t_max: the winding has run away
 constexpr int sub_stretches = 4;                  // per ramp when L(i) varies over the ripple
-constexpr double smooth_voltage_change = 0.25;    // relative change of v over a ramp for quadrature
+// Relative change of v over a ramp up to which it is integrated by quadrature: 1/v then departs
+// from the degree-7 polynomial Gauss–Legendre integrates exactly by about 0.25^8 ≈ 2e-5.
+constexpr double smooth_voltage_change = 0.25;
 constexpr double flat_inductance = 1e-3; // relative L change over the ripple treated as flat
 constexpr double d_min = 1e-9, d_max = 1.0 - 1e-9;
 

@@ -171,6 +171,8 @@ std::vector<TunedPoint> walk_hint(const SettingRange& range, const converter::Se
         if (m1 > m0 && m1 < 0.0) {
             const double target = 0.1 * std::abs(m0);
             const double u = u1 + (target - m1) * (u1 - u0) / (m1 - m0);
+            // A secant through a nearly flat margin can aim far off: no further than eight
+            // steps (a sixth of the range), a numerical choice.
             u2 = std::clamp(u, std::min(u1, u1 + 8.0 * sign * step),
                             std::max(u1, u1 + 8.0 * sign * step));
         }
