@@ -548,6 +548,7 @@ struct FixedPointSteps {
     bool seen_after = false;  // one step after it has been seen
     double d_after = 0.0;     // that step
     double before_jump = 0.0; // where the plain step would have gone instead
+    bool first = false;       // the unconfirmed step is the first one (first_step)
 
     double step(double d, double omega) {
         const double rho = d_prev != 0.0 ? d / d_prev : 0.0;
@@ -566,6 +567,7 @@ struct FixedPointSteps {
         const double plain = x + omega * d;
         const double moved = x + step(d, omega);
         if (moved != plain) {
+            first = false;
             unconfirmed = true;
             seen_after = false;
             before_jump = plain;
@@ -590,12 +592,22 @@ struct FixedPointSteps {
             d_after = d;
             return false;
         }
-        unconfirmed = false;
+        unconfirmed = first = false;
         return d * d_after > 0.0 && std::abs(d) > std::abs(d_after);
+    }
+    // The first step is taken on a guessed waveform (the linearisation has not settled), so it
+    // can overshoot the way a jump does: it stays unconfirmed too, going back to where it began.
+    void first_step(double from) {
+        d_prev = rho_prev = 0.0; // a guessed waveform's step gives no ratio to extrapolate on
+        unconfirmed = true;
+        seen_after = false;
+        before_jump = from;
+        first = true;
     }
     void go_back(double& x) {
         x = before_jump;
-        jumps = false;
+        if (!first) jumps = false; // a jump that landed past: plain steps from here on
+        first = false;
         unconfirmed = false;
         d_prev = rho_prev = 0.0;
     }
@@ -981,8 +993,13 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
         if (overshoots(dl, steps_l.d_prev) || overshoots(dj, steps_j.d_prev))
             omega = std::max(0.25, 0.5 * omega);
         // Losses are never negative: neither part can sit below ambient.
+        const double t_l_from = t_l, tj_from = tj;
         t_l = std::max(amb, steps_l.next(t_l, dl, omega));
         tj = std::max(amb, steps_j.next(tj, dj, omega));
+        if (it == 0) {
+            steps_l.first_step(t_l_from);
+            steps_j.first_step(tj_from);
+        }
         if (!std::isfinite(t_l) || !std::isfinite(tj)) break;
         lin_lo = w.i_valley;
         lin_hi = w.i_peak;
