@@ -55,6 +55,7 @@ struct LimitCheck {
     double bound = 0.0; // SI
     double margin = 0.0;
     std::string message; // plain sentence with numbers, for a broken limit
+    bool fixed = false;  // set by the parts alone (ratings, sizes): no setting moves it
 };
 
 struct PairEvaluation {

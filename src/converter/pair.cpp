@@ -39,6 +39,14 @@ public:
         const double margin = bound != 0.0 ? (value - bound) / std::abs(bound) : value - bound;
         add(limit, corner, value, bound, margin, message);
     }
+    // value <= bound, a limit no setting can move (a rating or a size)
+    template <class Message>
+    void fixed_upper(std::string_view limit, const std::string& corner, double value, double bound,
+                     Message&& message) {
+        upper(limit, corner, value, bound, message);
+        e_.checks.back().fixed = true;
+        if (e_.checks.back().margin < 0.0) e_.violations.back().fixed = true;
+    }
     template <class Message>
     void add(std::string_view limit, const std::string& corner, double value, double bound,
              double margin, Message&& message) {
@@ -112,7 +120,7 @@ PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
             std::max_element(corners.begin(), corners.end(),
                              [](const Corner& a, const Corner& b) { return a.vin < b.vin; });
         const double vr = worst->vin;
-        check.upper("vrrm", worst->name, vr, vr_bound, [&] {
+        check.fixed_upper("vrrm", worst->name, vr, vr_bound, [&] {
             return "diode reverse voltage " + fmt(vr, Dimension::voltage) + " exceeds " +
                    fmt(lim.vrrm_derating, Dimension::ratio) + " of its Vrrm (" +
                    fmt(vr_bound, Dimension::voltage) + ")" + at(worst->name);
@@ -206,18 +214,18 @@ PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
                    at(nominal_name);
         });
     if (lim.height_max) {
-        check.upper("height_max", "", l.height, *lim.height_max, [&] {
+        check.fixed_upper("height_max", "", l.height, *lim.height_max, [&] {
             return "inductor \"" + l.id + "\" is " + fmt(l.height, Dimension::length) +
                    " high, above the limit " + fmt(*lim.height_max, Dimension::length);
         });
-        check.upper("height_max", "", diode.height, *lim.height_max, [&] {
+        check.fixed_upper("height_max", "", diode.height, *lim.height_max, [&] {
             return "diode \"" + diode.id + "\" is " + fmt(diode.height, Dimension::length) +
                    " high, above the limit " + fmt(*lim.height_max, Dimension::length);
         });
     }
     if (lim.footprint_max) {
         const double area = l.footprint() + diode.footprint();
-        check.upper("footprint_max", "", area, *lim.footprint_max, [&] {
+        check.fixed_upper("footprint_max", "", area, *lim.footprint_max, [&] {
             return "the two parts take " + fmt(area, Dimension::area) +
                    " of board, above the limit " + fmt(*lim.footprint_max, Dimension::area);
         });

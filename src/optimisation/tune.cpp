@@ -98,6 +98,11 @@ struct ConstraintMap {
         std::size_t pos = 0;
         auto apply = [&](const converter::LimitCheck& c) {
             const std::size_t k = slot(c, pos++);
+            // A limit the setting cannot move is no constraint for the solver: met, it stays
+            // met; broken, the evaluation's verdict holds the pair infeasible anyway. Passed on
+            // with the margin target, a part exactly at its limit (a 5 mm part under a 5 mm
+            // ceiling) would look broken everywhere and mislead the solve.
+            if (c.fixed) return;
             g[k] = std::max(g[k], margin_target - safe_margin(c.margin));
         };
         for (const auto& c : e.checks) apply(c);
