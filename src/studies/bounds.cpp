@@ -541,6 +541,16 @@ double pair_loss_within(const ScreenContext& c, const InductorBound& l, const Di
     return loss + d.loss + c.loss_floor;
 }
 
+std::optional<std::pair<double, double>> open_settings(const InductorBound& b) {
+    if (!b.feasible || b.stretches.empty()) return std::nullopt;
+    double lo = INFINITY, hi = -INFINITY;
+    for (const auto& st : b.stretches) {
+        lo = std::min(lo, st.x1);
+        hi = std::max(hi, st.x2);
+    }
+    return std::make_pair(lo, hi);
+}
+
 std::optional<double> pair_best_setting(const ScreenContext& c, const InductorBound& l,
                                         const DiodeBound& d, const optimisation::Scales& s) {
     const double k = c.design->weights.loss / s.power;

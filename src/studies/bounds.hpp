@@ -25,6 +25,7 @@
 #include "studies/screen.hpp"
 
 #include <optional>
+#include <utility>
 #include <vector>
 
 namespace coilsieve::studies {
@@ -96,6 +97,10 @@ optimisation::Objectives pair_optimistic(const ScreenContext& c, const InductorB
 // where the pair's score bound is below the cap, and the loss there is at least the result.
 double pair_loss_within(const ScreenContext& c, const InductorBound& l, const DiodeBound& d,
                         const optimisation::Scales& s, double score_cap);
+
+// The settings a bound leaves open: the hull [lo, hi] of its feasible stretches (none when it
+// leaves none). No setting outside it can meet the limits, so a tuner need not look there.
+std::optional<std::pair<double, double>> open_settings(const InductorBound& b);
 
 // Where the pair's score bound is least: the middle of that stretch (geometric on a log scale).
 // The tuner starts there too, so a probe at this value bounds the tuned score from above.

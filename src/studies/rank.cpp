@@ -333,13 +333,27 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
     // The middle of the settings a pair's bound leaves open (where a hint walks when it breaks a
     // limit); `fallback` when it leaves none.
     auto window_middle = [&](const InductorBound& ib, double fallback) {
-        if (ib.stretches.empty()) return fallback;
-        double lo = INFINITY, hi = -INFINITY;
-        for (const auto& st : ib.stretches) {
-            lo = std::min(lo, st.x1);
-            hi = std::max(hi, st.x2);
-        }
+        const auto open = open_settings(ib);
+        if (!open) return fallback;
+        const auto [lo, hi] = *open;
         return res.range.log_scale && lo > 0.0 ? std::sqrt(lo * hi) : 0.5 * (lo + hi);
+    };
+    // The range the tuner searches: only the settings the pair's bound leaves open can meet the
+    // limits. Its pre-scan keeps the whole range's spacing there (at least three points). The
+    // whole range when the bound leaves nothing open (an exhaustive run still tunes such a pair).
+    auto search_range = [&](const InductorBound& ib, optimisation::TuneOptions& to) {
+        const auto open = open_settings(ib);
+        const auto& all = res.range;
+        if (!open || !(all.hi > all.lo)) return all;
+        optimisation::SettingRange win = all;
+        win.lo = std::max(all.lo, open->first);
+        win.hi = std::min(all.hi, open->second);
+        if (!(win.hi > win.lo)) return all;
+        const double share = all.log_scale ? std::log(win.hi / win.lo) / std::log(all.hi / all.lo)
+                                           : (win.hi - win.lo) / (all.hi - all.lo);
+        const int k = std::max(2, to.prescan_points);
+        to.prescan_points = std::clamp(1 + static_cast<int>(std::ceil((k - 1) * share)), 3, k);
+        return win;
     };
     auto run_job = [&](Job& job) {
         PairResult& pr = job.r;
@@ -397,7 +411,9 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
                 }
                 job.probe_evaluations = 0; // handed to the tuner, which counts them
             }
-            pr.tune = optimisation::tune(res.range, base, ev, scorer, options.tune, {}, walked);
+            optimisation::TuneOptions to = options.tune;
+            const optimisation::SettingRange search = search_range(lb, to);
+            pr.tune = optimisation::tune(search, base, ev, scorer, to, {}, walked);
         } catch (const std::exception& e) {
             pr.tune = optimisation::TuneResult{};
             pr.tune.feasible = false;

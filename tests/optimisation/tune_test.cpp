@@ -1,9 +1,8 @@
 // Tuning one pair's free setting against synthetic evaluators whose optimum is known in closed
 // form or by a brute-force scan, and a starter-catalog pair against a dense scan of the engine.
-#include "optimisation/tune.hpp"
-
 #include "catalog/store.hpp"
 #include "design/design_json.hpp"
+#include "optimisation/tune.hpp"
 
 #include <cmath>
 #include <gtest/gtest.h>

@@ -28,8 +28,8 @@ struct Case {
 };
 
 void check_warm_up(const Case& k) {
-    const auto d = design::load_design_file(std::string(COILSIEVE_SOURCE_DIR) +
-                                            "/data/examples/" + k.design);
+    const auto d =
+        design::load_design_file(std::string(COILSIEVE_SOURCE_DIR) + "/data/examples/" + k.design);
     const auto parts = catalog::starter_parts();
     const parts::Inductor* l = nullptr;
     const parts::Diode* di = nullptr;
@@ -58,7 +58,8 @@ void check_warm_up(const Case& k) {
         const auto sim = simulation::simulate_corner(d, prepared.inductor, prepared.diode, *c, s, t,
                                                      {}, &engine);
         const auto& p = sim.steady.losses;
-        const double g = c->ambient + prepared.diode.rth_ja * (p.diode_conduction + p.diode_leakage);
+        const double g =
+            c->ambient + prepared.diode.rth_ja * (p.diode_conduction + p.diode_leakage);
         ASSERT_GE(g, t.diode - 1e-6) << "warming from cold never cools (step " << n << ")";
         t_next = t.diode + 0.5 * (g - t.diode);
         if (std::abs(g - t.diode) < 1e-3) break;
@@ -75,8 +76,8 @@ void check_warm_up(const Case& k) {
 TEST(ThermalBalance, LeakySchottkySettlesWhereItWarmsUpToFromCold) {
     check_warm_up({"reading-lamp.json", "GEN-L-MCP-5.4x5.2x3-56u", "GEN-D-SCH-45V-2A-SOD-123F",
                    "vin-max hot L-20%", 0.12642});
-    check_warm_up({"reading-lamp.json", "GEN-L-SDF-4x4x3-22u", "GEN-D-SCH-30V-2A-SMA",
-                   "vin-nom hot", 0.189});
+    check_warm_up(
+        {"reading-lamp.json", "GEN-L-SDF-4x4x3-22u", "GEN-D-SCH-30V-2A-SMA", "vin-nom hot", 0.189});
 }
 
 // PWM with an output capacitor: the first pass runs on a guessed ripple (twice the true one here),

@@ -173,6 +173,13 @@ TEST_P(Bounds, StretchBoundsHoldAtEveryFeasibleSetting) {
                 }
                 if (!p.evaluation.feasible) continue;
                 ++feasible_points;
+                // Inside the settings the bounds leave open (where the ranking's tuner looks).
+                for (const auto* b : {&lb, &pb}) {
+                    const auto open = studies::open_settings(*b);
+                    ASSERT_TRUE(open.has_value()) << at;
+                    EXPECT_GE(x, open->first) << at;
+                    EXPECT_LE(x, open->second) << at;
+                }
                 EXPECT_LE(pair_bound, p.score) << at;
                 EXPECT_LE(loss_bound, p.objectives.loss) << at;
                 EXPECT_LE(pb_score, p.score) << at;
