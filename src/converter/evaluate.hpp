@@ -30,6 +30,14 @@ double switch_on_resistance(const design::Switch& sw, double ambient);
 // 1 without a capacitor; ESR/(ESR + r) as f grows without bound. Falls as f rises.
 double load_ripple_share(double r, double capacitance, double esr, double frequency);
 
+// Peak-to-peak load current per ampere of inductor ripple when the inductor current is an ideal
+// triangle (rising for duty·T, falling for the rest) and the load r has a capacitor C (ESR)
+// across it. The divider is first order, i_load = β·i_L + (1 − β)·z with τ·z' = i_L − z,
+// β = ESR/(r + ESR), τ = (r + ESR)·C; the periodic solution is exact (two exponential pieces).
+// 1 without a capacitor; β as C grows without bound.
+double triangle_load_ripple(double r, double capacitance, double esr, double frequency,
+                            double duty);
+
 // The corners of a design for a part with inductance tolerance `l_tolerance` (fraction).
 std::vector<Corner> make_corners(const design::Design& d, double l_tolerance);
 

@@ -1113,6 +1113,42 @@ double load_ripple_share(double r, double capacitance, double esr, double freque
     return ripple_path(r, capacitance, esr, frequency).k_load;
 }
 
+double triangle_load_ripple(double r, double capacitance, double esr, double frequency,
+                            double duty) {
+    if (!(capacitance > 0.0) || !(r > 0.0) || !(frequency > 0.0) || !(duty > 0.0) || !(duty < 1.0))
+        return 1.0;
+    const double beta = std::max(0.0, esr) / (r + std::max(0.0, esr));
+    const double tau = (r + std::max(0.0, esr)) * capacitance;
+    const double period = 1.0 / frequency;
+    const double t1 = duty * period, t2 = period - t1;
+    const double a = 1.0 / t1, b = 1.0 / t2; // slopes of a triangle of 1 A p-p
+    // 1 − e^{−t/τ} without cancellation when τ is long.
+    auto one_minus = [tau](double t) { return -std::expm1(-t / tau); };
+    const double g1 = one_minus(t1), g2 = one_minus(t2), g = one_minus(period);
+    // e = i_L − z: on the rise e → a·τ, on the fall e → −b·τ; e0 at the valley, e1 at the peak.
+    const double e0 = tau * (-b * g2 + a * (1.0 - g2) * g1) / g;
+    const double e1 = a * tau + (e0 - a * tau) * (1.0 - g1);
+    // y measured from its value at the valley.
+    auto rise = [&](double t) { return a * t + (1.0 - beta) * (e0 - a * tau) * one_minus(t); };
+    const double y1 = rise(t1);
+    auto fall = [&](double t) { return y1 - b * t + (1.0 - beta) * (e1 + b * tau) * one_minus(t); };
+    double lo = std::min(0.0, y1), hi = std::max(0.0, y1);
+    // Turning points inside a piece: y' = 0 where e^{−t/τ} takes the value x.
+    if (beta < 1.0) {
+        auto inside = [&](double x, double t_end, auto&& y) {
+            if (!(x > 0.0) || !(x < 1.0)) return;
+            const double t = -tau * std::log(x);
+            if (!(t > 0.0 && t < t_end)) return;
+            const double v = y(t);
+            lo = std::min(lo, v);
+            hi = std::max(hi, v);
+        };
+        if (a * tau - e0 > 0.0) inside(a * tau / ((1.0 - beta) * (a * tau - e0)), t1, rise);
+        if (e1 + b * tau > 0.0) inside(b * tau / ((1.0 - beta) * (e1 + b * tau)), t2, fall);
+    }
+    return hi - lo;
+}
+
 Setting corner_setting(const design::Design& d, const Corner& c, const Setting& s) {
     Setting out = s;
     if (d.control.mode == design::ControlMode::hysteretic && d.control.band_is_fraction) {

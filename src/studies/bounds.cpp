@@ -21,6 +21,7 @@ constexpr int max_refinements = 40;       // interval halvings around the minimu
 constexpr int edge_refinements = 6;       // halvings of a stretch at the edge of the window
 constexpr double refine_tolerance = 2e-4; // stop when the bound can rise no more than this (score)
 constexpr double ramp_shape_slack = 0.9; // PWM peak above the mean: 90 % of ΔI/2 (common practice)
+constexpr int duty_grid = 16;            // steps over the duty's range (triangle_load_ripple)
 
 // What an inductor brings to every corner, independent of the setting.
 struct CornerParts {
@@ -188,7 +189,8 @@ public:
 
             double i_lb = 0.0, i_ub = 0.0, peak_lb = 0.0, valley_lb = 0.0;
             double di_lb = 0.0, f_lb = 0.0, f_ub = INFINITY;
-            bool dcm_certain = false; // the valley cannot stay above zero
+            bool dcm_certain = false;    // the valley cannot stay above zero
+            double triangle_share = 0.0; // PWM, CCM certain: load p-p per A of inductor p-p
             if (hysteretic(c_)) {
                 // The comparator trips at I ± b/2; the switch follows t_d later, so the peak is
                 // i_hi + ∫v_on/L over t_d and the valley i_lo − ∫v_off/L (clamped at zero, DCM).
@@ -251,6 +253,23 @@ public:
                                            drop_min(valley_lb, k.ambient);
                     di_lb = std::max(di_lb, volt_second_rate(von_lb, voff_lb) / (p.l_hi * x2));
                 }
+                // In CCM the duty follows from flux balance, V_on·D = V_off·(1 − D), between its
+                // extremes; the capacitor's divider passes the least of the triangle's ripple
+                // there at the highest frequency (triangle_load_ripple falls with f). It is not
+                // monotone in D, so it is taken at the least of a fine grid.
+                if (p.capacitor && von_lb > 0.0) {
+                    const double voff_least = vload_lb(valley_lb) + valley_lb * p.r_off_lb +
+                                              drop_min(valley_lb, k.ambient);
+                    const double d_lo = voff_least / (von_ub + voff_least);
+                    const double d_hi = voff_ub / (von_lb + voff_ub);
+                    triangle_share = INFINITY;
+                    for (int n = 0; n <= duty_grid; ++n) {
+                        const double duty = d_lo + (d_hi - d_lo) * n / duty_grid;
+                        triangle_share =
+                            std::min(triangle_share,
+                                     converter::triangle_load_ripple(k.r, p.cap, p.esr, x2, duty));
+                    }
+                }
                 // The mean of near-linear ramps sits mid-way between valley and peak (CCM), and
                 // below peak/2 in DCM, so peak >= I + ΔI/2; ramp_shape_slack allows for the
                 // curvature of R–L ramps and L(i).
@@ -269,10 +288,16 @@ public:
             // at least π/2 times its fundamental (the square wave is the extreme), and the divider
             // is linear: p-p >= share(f_max)·ΔI/2. In DCM the engine takes the load ripple as
             // share·ΔI (its fundamental path, converter/steady_state.cpp).
-            const double load_di =
-                p.capacitor ? (dcm_certain ? 1.0 : 0.5) *
-                                  converter::load_ripple_share(k.r, p.cap, p.esr, f_ub) * di_lb
-                            : di_lb;
+            double load_share = 1.0;
+            if (p.capacitor) {
+                const double share = converter::load_ripple_share(k.r, p.cap, p.esr, f_ub);
+                // CCM: the general half-fundamental bound, or the triangle's own ripple through
+                // the divider with ramp_shape_slack for curved ramps (PWM; the engine's
+                // two-state solution). DCM: share·ΔI. Unsure: the smaller of the two.
+                const double ccm = std::max(0.5 * share, ramp_shape_slack * triangle_share);
+                load_share = dcm_certain ? share : valley_lb > 0.0 ? ccm : std::min(share, ccm);
+            }
+            const double load_di = load_share * di_lb;
             if (lim.load_ripple && load_di / i_target > *lim.load_ripple) close("load_ripple");
             iv.ripple = std::max(iv.ripple, load_di / i_ub);
             if (m_.isat > 0.0) iv.peak_ratio = std::max(iv.peak_ratio, peak_lb / m_.isat);
