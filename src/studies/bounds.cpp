@@ -296,6 +296,9 @@ public:
                 // two-state solution). DCM: share·ΔI. Unsure: the smaller of the two.
                 const double ccm = std::max(0.5 * share, ramp_shape_slack * triangle_share);
                 load_share = dcm_certain ? share : valley_lb > 0.0 ? ccm : std::min(share, ccm);
+                // Hysteretic: the engine passes the share at the switching frequency of any
+                // waveform (its ripple path), at most f_ub.
+                if (hysteretic(c_)) load_share = share;
             }
             const double load_di = load_share * di_lb;
             if (lim.load_ripple && load_di / i_target > *lim.load_ripple) close("load_ripple");

@@ -1,5 +1,5 @@
 // The pruning bounds of studies/bounds.hpp checked against the engine itself on the starter
-// catalog, for both example designs. The pruned == exhaustive test (starter_test.cpp) cannot see a
+// catalog, for the three example designs. The pruned == exhaustive test (starter_test.cpp) cannot see a
 // wrong screen, because both runs screen alike; these tests can:
 // - a part screened out because no setting in range can meet the limits is infeasible at every
 //   setting of a dense scan, with every diode (or inductor) of a sample;
@@ -7,7 +7,9 @@
 //   score bound <= score and optimistic loss <= loss, and the diode's heating floor (its junction
 //   balance) <= its conduction and leakage loss;
 // - the probe's restricted loss bound, capped at a feasible point's own score, is still below the
-//   loss there (the tuned point is no worse than the probe, so it lies in the region).
+//   loss there (the tuned point is no worse than the probe, so it lies in the region);
+// - every feasible scan point and every feasible tuned optimum (which sits on its binding limit,
+//   where a bound that closes settings bites first) lies in the settings the bounds leave open.
 // The references are the engine's own evaluations (converter::evaluate_pair); the bounds are
 // independent inequalities (volt-second balance, Erickson & Maksimović 2nd ed. ch. 2 and 5).
 #include "catalog/store.hpp"
@@ -141,13 +143,12 @@ TEST_P(Bounds, StretchBoundsHoldAtEveryFeasibleSetting) {
     Case s(GetParam());
     const auto& k = starter();
     const auto& w = s.d.weights;
-    std::size_t feasible_points = 0, pair_closed_points = 0;
+    std::size_t feasible_points = 0, pair_closed_points = 0, window_closed_points = 0;
     for (std::size_t i : sample(k.inductors, 150)) {
         const auto& l = k.inductors[i];
         const auto m = parts::make_model(l);
         if (!studies::screen_inductor(s.ctx, l, m).empty()) continue;
         const auto lb = studies::inductor_bound(s.ctx, l, m, s.scales);
-        if (lb.window) continue;
         for (std::size_t j : sample(k.diodes, 25)) {
             const auto& di = k.diodes[j];
             const auto dm = parts::make_model(di);
@@ -167,6 +168,11 @@ TEST_P(Bounds, StretchBoundsHoldAtEveryFeasibleSetting) {
                 const auto setting = optimisation::make_setting(s.range, s.base, x);
                 const auto p = scorer(setting, converter::evaluate_pair(s.d, l, di, setting));
                 const std::string at = l.id + " with " + di.id + " at " + std::to_string(x);
+                if (lb.window) {
+                    ++window_closed_points;
+                    EXPECT_FALSE(p.evaluation.feasible) << "inductor's window closed, yet " << at;
+                    continue;
+                }
                 if (!pb.feasible) {
                     ++pair_closed_points;
                     EXPECT_FALSE(p.evaluation.feasible) << "pair window closed, yet " << at;
@@ -200,6 +206,53 @@ TEST_P(Bounds, StretchBoundsHoldAtEveryFeasibleSetting) {
     }
     EXPECT_GT(feasible_points, 100u) << "too few feasible points to check the bounds";
     RecordProperty("pair_closed_points", static_cast<int>(pair_closed_points));
+    RecordProperty("window_closed_points", static_cast<int>(window_closed_points));
+}
+
+TEST_P(Bounds, TunedOptimaLieInsideTheOpenSettings) {
+    // A tuned optimum sits on its binding limit, where a bound that closes settings bites first:
+    // every feasible one must lie in the settings both bounds leave open. Sampled among the parts
+    // that pass the screens of their own (the window screen included in the check).
+    Case s(GetParam());
+    const auto& k = starter();
+    std::vector<parts::Inductor> ls;
+    std::vector<parts::Diode> ds;
+    for (const auto& l : k.inductors)
+        if (studies::screen_inductor(s.ctx, l, parts::make_model(l)).empty()) ls.push_back(l);
+    for (const auto& di : k.diodes)
+        if (studies::screen_diode(s.ctx, di, parts::make_model(di)).empty()) ds.push_back(di);
+    std::size_t tuned = 0;
+    for (std::size_t i : sample(ls, 60)) {
+        const auto& l = ls[i];
+        const auto m = parts::make_model(l);
+        const auto lb = studies::inductor_bound(s.ctx, l, m, s.scales);
+        for (std::size_t j : sample(ds, 10)) {
+            const auto& di = ds[j];
+            const auto prepared = converter::prepare_pair(s.d, l, di);
+            const optimisation::PairEvaluator ev = [&](const converter::Setting& x) {
+                return converter::evaluate_pair(s.d, l, di, prepared, x);
+            };
+            const auto t = optimisation::tune(
+                s.range, s.base, ev, optimisation::make_scorer(l, di, s.d.weights, s.scales));
+            if (!t.feasible) continue;
+            ++tuned;
+            const double x = s.range.variable == optimisation::Variable::band
+                                 ? t.best.setting.band
+                                 : t.best.setting.frequency;
+            const std::string at = l.id + " with " + di.id + " tuned to " + std::to_string(x);
+            ASSERT_FALSE(lb.window.has_value()) << "inductor's window closed, yet " << at;
+            const auto dm = parts::make_model(di);
+            const auto db = studies::diode_bound(s.ctx, di, dm, s.scales);
+            const auto pb = studies::pair_inductor_bound(s.ctx, l, m, lb, dm, db, s.scales);
+            for (const auto* b : {&lb, &pb}) {
+                const auto open = studies::open_settings(*b);
+                ASSERT_TRUE(open.has_value()) << "closed, yet " << at;
+                EXPECT_GE(x, open->first) << at;
+                EXPECT_LE(x, open->second) << at;
+            }
+        }
+    }
+    EXPECT_GT(tuned, 50u) << "too few feasible pairs to check";
 }
 
 INSTANTIATE_TEST_SUITE_P(Examples, Bounds,
