@@ -34,7 +34,7 @@ double load_ripple_share(double r, double capacitance, double esr, double freque
 // triangle (rising for duty·T, falling for the rest) and the load r has a capacitor C (ESR)
 // across it. The divider is first order, i_load = β·i_L + (1 − β)·z with τ·z' = i_L − z,
 // β = ESR/(r + ESR), τ = (r + ESR)·C; the periodic solution is exact (two exponential pieces).
-// 1 without a capacitor; β as C grows without bound.
+// 1 without a capacitor (or for a duty outside (0, 1)); β as C grows without bound.
 double triangle_load_ripple(double r, double capacitance, double esr, double frequency,
                             double duty);
 

@@ -262,8 +262,8 @@ public:
                                               drop_min(valley_lb, k.ambient);
                     const double d_lo = voff_least / (von_ub + voff_least);
                     const double d_hi = voff_ub / (von_lb + voff_ub);
-                    triangle_share = INFINITY;
-                    for (int n = 0; n <= duty_grid; ++n) {
+                    triangle_share = d_lo > 0.0 && d_hi < 1.0 ? INFINITY : 0.0;
+                    for (int n = 0; n <= duty_grid && triangle_share > 0.0; ++n) {
                         const double duty = d_lo + (d_hi - d_lo) * n / duty_grid;
                         triangle_share =
                             std::min(triangle_share,

@@ -352,7 +352,8 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         const double share = all.log_scale ? std::log(win.hi / win.lo) / std::log(all.hi / all.lo)
                                            : (win.hi - win.lo) / (all.hi - all.lo);
         const int k = std::max(2, to.prescan_points);
-        to.prescan_points = std::clamp(1 + static_cast<int>(std::ceil((k - 1) * share)), 3, k);
+        to.prescan_points =
+            std::clamp(1 + static_cast<int>(std::ceil((k - 1) * share)), std::min(3, k), k);
         return win;
     };
     auto run_job = [&](Job& job) {
