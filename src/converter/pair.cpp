@@ -27,28 +27,28 @@ public:
 
     // value <= bound
     template <class Message>
-    void upper(std::string_view limit, const std::string& corner, double value, double bound,
+    void upper(std::string_view limit, const SharedName& corner, double value, double bound,
                Message&& message) {
         const double margin = bound != 0.0 ? (bound - value) / std::abs(bound) : bound - value;
         add(limit, corner, value, bound, margin, message);
     }
     // value >= bound
     template <class Message>
-    void lower(std::string_view limit, const std::string& corner, double value, double bound,
+    void lower(std::string_view limit, const SharedName& corner, double value, double bound,
                Message&& message) {
         const double margin = bound != 0.0 ? (value - bound) / std::abs(bound) : value - bound;
         add(limit, corner, value, bound, margin, message);
     }
     // value <= bound, a limit no setting can move (a rating or a size)
     template <class Message>
-    void fixed_upper(std::string_view limit, const std::string& corner, double value, double bound,
+    void fixed_upper(std::string_view limit, const SharedName& corner, double value, double bound,
                      Message&& message) {
         upper(limit, corner, value, bound, message);
         e_.checks.back().fixed = true;
         if (e_.checks.back().margin < 0.0) e_.violations.back().fixed = true;
     }
     template <class Message>
-    void add(std::string_view limit, const std::string& corner, double value, double bound,
+    void add(std::string_view limit, const SharedName& corner, double value, double bound,
              double margin, Message&& message) {
         LimitCheck k;
         k.limit = std::string(limit);
@@ -130,7 +130,7 @@ PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
     for (std::size_t k = 0; k < corners.size(); ++k) {
         const Corner& c = corners[k];
         const CornerResult& r = e.corners[k];
-        const std::string& cn = r.name;
+        const SharedName cn(r.name); // one allocation for all of this corner's checks
         if (r.status != CornerStatus::ok) {
             const bool regulation = r.status == CornerStatus::no_regulation;
             const std::string_view limit = r.status == CornerStatus::thermal_runaway
@@ -214,18 +214,18 @@ PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
                    at(nominal_name);
         });
     if (lim.height_max) {
-        check.fixed_upper("height_max", "", l.height, *lim.height_max, [&] {
+        check.fixed_upper("height_max", {}, l.height, *lim.height_max, [&] {
             return "inductor \"" + l.id + "\" is " + fmt(l.height, Dimension::length) +
                    " high, above the limit " + fmt(*lim.height_max, Dimension::length);
         });
-        check.fixed_upper("height_max", "", diode.height, *lim.height_max, [&] {
+        check.fixed_upper("height_max", {}, diode.height, *lim.height_max, [&] {
             return "diode \"" + diode.id + "\" is " + fmt(diode.height, Dimension::length) +
                    " high, above the limit " + fmt(*lim.height_max, Dimension::length);
         });
     }
     if (lim.footprint_max) {
         const double area = l.footprint() + diode.footprint();
-        check.fixed_upper("footprint_max", "", area, *lim.footprint_max, [&] {
+        check.fixed_upper("footprint_max", {}, area, *lim.footprint_max, [&] {
             return "the two parts take " + fmt(area, Dimension::area) +
                    " of board, above the limit " + fmt(*lim.footprint_max, Dimension::area);
         });
