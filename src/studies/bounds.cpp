@@ -190,7 +190,7 @@ public:
             double i_lb = 0.0, i_ub = 0.0, peak_lb = 0.0, valley_lb = 0.0;
             double di_lb = 0.0, f_lb = 0.0, f_ub = INFINITY;
             bool dcm_certain = false;    // the valley cannot stay above zero
-            double triangle_share = 0.0; // PWM, CCM certain: load p-p per A of inductor p-p
+            double triangle_share = 0.0; // PWM: an ideal triangle's load p-p per A of ΔI (CCM)
             if (hysteretic(c_)) {
                 // The comparator trips at I ± b/2; the switch follows t_d later, so the peak is
                 // i_hi + ∫v_on/L over t_d and the valley i_lo − ∫v_off/L (clamped at zero, DCM).
@@ -282,23 +282,20 @@ public:
             if (peak_lb > peak_cap_) close("isat");
             if (lim.f_sw_max && f_lb > *lim.f_sw_max) close("f_sw_max");
             if (f_ub < lim.f_sw_min) close("f_sw_min");
-            // Load ripple: with a capacitor, the load's share of the ripple's fundamental. A
-            // triangle of p-p ΔI with rise fraction D has a fundamental of amplitude
-            // ΔI·sin(πD)/(π²·D·(1 − D)) >= ΔI/π (the least as D -> 0 or 1), a waveform's p-p is
-            // at least π/2 times its fundamental (the square wave is the extreme), and the divider
-            // is linear: p-p >= share(f_max)·ΔI/2. In DCM the engine takes the load ripple as
-            // share·ΔI (its fundamental path, converter/steady_state.cpp).
+            // Load ripple with a capacitor, as the engine takes it (converter/steady_state.cpp):
+            // - hysteretic, or PWM in DCM: share(f)·ΔI, the divider's share at the switching
+            //   frequency, and share falls with f, so share(f_ub)·ΔI;
+            // - PWM in CCM: the two-state solution. Any waveform's p-p is at least π/2 times its
+            //   fundamental (the square wave is the extreme), and a triangle's fundamental is at
+            //   least ΔI/π, so p-p >= share(f_ub)·ΔI/2; tighter, the ideal triangle's own ripple
+            //   through the divider, with ramp_shape_slack for curved ramps;
+            // - PWM, CCM not certain: the smaller of the two.
             double load_share = 1.0;
             if (p.capacitor) {
                 const double share = converter::load_ripple_share(k.r, p.cap, p.esr, f_ub);
-                // CCM: the general half-fundamental bound, or the triangle's own ripple through
-                // the divider with ramp_shape_slack for curved ramps (PWM; the engine's
-                // two-state solution). DCM: share·ΔI. Unsure: the smaller of the two.
                 const double ccm = std::max(0.5 * share, ramp_shape_slack * triangle_share);
-                load_share = dcm_certain ? share : valley_lb > 0.0 ? ccm : std::min(share, ccm);
-                // Hysteretic: the engine passes the share at the switching frequency of any
-                // waveform (its ripple path), at most f_ub.
-                if (hysteretic(c_)) load_share = share;
+                if (hysteretic(c_) || dcm_certain) load_share = share;
+                else load_share = valley_lb > 0.0 ? ccm : std::min(share, ccm);
             }
             const double load_di = load_share * di_lb;
             if (lim.load_ripple && load_di / i_target > *lim.load_ripple) close("load_ripple");
