@@ -1117,8 +1117,9 @@ double triangle_load_ripple(double r, double capacitance, double esr, double fre
                             double duty) {
     if (!(capacitance > 0.0) || !(r > 0.0) || !(frequency > 0.0) || !(duty > 0.0) || !(duty < 1.0))
         return 1.0;
-    const double beta = std::max(0.0, esr) / (r + std::max(0.0, esr));
-    const double tau = (r + std::max(0.0, esr)) * capacitance;
+    const double e = std::max(0.0, esr);
+    const double beta = e / (r + e);
+    const double tau = (r + e) * capacitance;
     const double period = 1.0 / frequency;
     const double t1 = duty * period, t2 = period - t1;
     const double a = 1.0 / t1, b = 1.0 / t2; // slopes of a triangle of 1 A p-p

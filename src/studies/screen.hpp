@@ -83,13 +83,6 @@ struct JunctionFloor {
 };
 JunctionFloor junction_floor(const EnvelopeCorner& k, const parts::DiodeModel& m, double tj_bound,
                              int passes);
-// The diode's heating P (conduction + leakage) at the engine's thermal fixed point, from below,
-// for a share `off` of the period in conduction. At that point Tj = Ta + Rth·P (to within
-// converter::temperature_tolerance), and P >= off·I·V_f(I, Tj) + I_R(Vin, Tj)·Vin·D
-// (junction_floor's inequalities). So Tj is no lower than the first temperature where that floor
-// can balance, and P no lower than the rise there over Rth: V_f is taken near the junction's own
-// temperature instead of at its limit. Tabulated once per diode and corner on cells of [ambient,
-// tj_bound]; each cell is bounded by monotone pieces as in junction_can_settle.
 // What a diode's junction tables depend on at a corner: the supply, the ambient and the load point
 // (its current, v0 and r set the duty). Corners of different inductance tolerance share it; two
 // points of a charge profile at the same current do not.
@@ -98,6 +91,14 @@ struct OperatingPoint {
     bool operator==(const OperatingPoint&) const = default;
 };
 OperatingPoint operating_point(const EnvelopeCorner& k);
+
+// The diode's heating P (conduction + leakage) at the engine's thermal fixed point, from below,
+// for a share `off` of the period in conduction. At that point Tj = Ta + Rth·P (to within
+// converter::temperature_tolerance), and P >= off·I·V_f(I, Tj) + I_R(Vin, Tj)·Vin·D
+// (junction_floor's inequalities). So Tj is no lower than the first temperature where that floor
+// can balance, and P no lower than the rise there over Rth: V_f is taken near the junction's own
+// temperature instead of at its limit. Tabulated once per diode and corner on cells of [ambient,
+// tj_bound]; each cell is bounded by monotone pieces as in junction_can_settle.
 
 class JunctionBalance {
 public:
