@@ -21,7 +21,9 @@ constexpr int max_refinements = 40;       // interval halvings around the minimu
 constexpr int edge_refinements = 6;       // halvings of a stretch at the edge of the window
 constexpr double refine_tolerance = 2e-4; // stop when the bound can rise no more than this (score)
 constexpr double ramp_shape_slack = 0.9; // PWM peak above the mean: 90 % of ΔI/2 (common practice)
-constexpr int duty_grid = 4;             // steps over the duty's range (triangle_load_ripple)
+// Steps over the duty's range for triangle_load_ripple's least value (a numerical choice: the
+// function varies slowly in D, and ramp_shape_slack covers what five samples can miss).
+constexpr int duty_grid = 4;
 
 // What an inductor brings to every corner, independent of the setting.
 struct CornerParts {
