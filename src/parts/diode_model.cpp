@@ -213,14 +213,23 @@ double DiodeModel::saturation_current(double temperature) const {
                              fwd.xti / fwd.n * std::log(temperature / tnom));
 }
 
-double DiodeModel::vf(double current, double temperature) const {
+double ForwardLaw::vf(double current) const {
     if (!(current > 0.0)) return 0.0;
     // SPICE diode i = IS(T)·(exp(vd/(N·Vt)) − 1) inverted exactly, plus the drop across RS.
-    const double x = current / saturation_current(temperature);
+    const double x = current / is;
     // log1p(x) = log(x) + log1p(1/x); for x > 1e6 the second term is 1/x to 1e-12 relative,
     // and log is cheaper than log1p on the optimiser's hot path.
     const double l = x > 1e6 ? std::log(x) + 1.0 / x : std::log1p(x);
-    return fwd.n * thermal_voltage(temperature) * l + current * fwd.rs;
+    return nvt * l + current * rs;
+}
+
+ForwardLaw DiodeModel::forward_at(double temperature) const {
+    return {fwd.n * thermal_voltage(temperature), saturation_current(temperature), fwd.rs};
+}
+
+double DiodeModel::vf(double current, double temperature) const {
+    if (!(current > 0.0)) return 0.0;
+    return forward_at(temperature).vf(current);
 }
 
 double DiodeModel::junction_charge(double vr) const {

@@ -9,6 +9,16 @@ namespace coilsieve::parts {
 // Thermal voltage kT/q from the exact SI constants (k = 1.380649e-23 J/K, q = 1.602176634e-19 C).
 double thermal_voltage(double temperature);
 
+// The forward law at one junction temperature, IS(T) and N·Vt(T) evaluated once: for callers that
+// need V_f at many currents and few temperatures. DiodeModel::vf gives the same numbers.
+struct ForwardLaw {
+    double nvt = 0.0; // V, N·Vt(T)
+    double is = 1.0;  // A, IS(T)
+    double rs = 0.0;  // Ω
+    // Forward voltage at current i (A), including RS; 0 at i <= 0.
+    double vf(double current) const;
+};
+
 struct DiodeModel {
     SpiceForward fwd;     // at tnom
     double tnom = 300.15; // K, ngspice default TNOM 27 °C
@@ -28,6 +38,7 @@ struct DiodeModel {
     double saturation_current(double temperature) const;
     // Forward voltage at current i (A, > 0) and junction temperature T, including RS.
     double vf(double current, double temperature) const;
+    ForwardLaw forward_at(double temperature) const;
     // Charge (C) the junction capacitance holds at reverse voltage vr (>= 0).
     double junction_charge(double vr) const;
     // Energy (J) ∫ v·C(v) dv from 0 to vr, lost per cycle when the junction is charged hard.

@@ -268,6 +268,34 @@ TEST(LoadRipple, TriangleLimitsAndItsFallWithFrequency) {
                 }
 }
 
+TEST(LoadRipple, TriangleOverANarrowDutyRangeIsLeastNearAnEnd) {
+    // The ranking's bound takes the least of the two ends of the duty's flux-balance range for
+    // the least over the range; that range is at most 0.058 wide on the example charger. Checked
+    // here for ranges up to 0.1 wide anywhere in the duty, over light to heavy filtering, against
+    // a 64-step grid: the ends' least is within 0.5 % of it (an interior minimum near D = 0.5
+    // costs at most 0.45 %).
+    for (double r : {0.05, 1.0, 20.0})
+        for (double esr : {0.0, 0.005, 0.5})
+            for (double c : {1e-8, 1e-6, 1e-4, 1e-3})
+                for (int fn = 0; fn <= 12; ++fn) {
+                    const double f = 1e3 * std::pow(10.0, fn / 3.0);
+                    for (double width : {0.02, 0.06, 0.1})
+                        for (int cn = 0; cn <= 20; ++cn) {
+                            const double lo = 0.02 + (0.96 - width) * cn / 20.0;
+                            const double hi = lo + width;
+                            double least = INFINITY;
+                            for (int n = 0; n <= 64; ++n)
+                                least = std::min(least, triangle_load_ripple(
+                                                            r, c, esr, f, lo + width * n / 64.0));
+                            const double ends = std::min(triangle_load_ripple(r, c, esr, f, lo),
+                                                         triangle_load_ripple(r, c, esr, f, hi));
+                            EXPECT_LE(ends, 1.005 * least)
+                                << r << " ohm, " << esr << " ohm ESR, " << c << " F, " << f
+                                << " Hz, D " << lo << ".." << hi;
+                        }
+                }
+}
+
 TEST(Losses, DiodeConductionIsTheAverageOfVfTimesCurrent) {
     // Domain notes: conduction loss is the average of v_f(i)·i over the interval, not
     // V_f(I_avg)·I_avg. Lossless limit: the off interval is a straight ramp from peak to valley,
