@@ -54,6 +54,16 @@ double InductorModel::core_loss(double delta_i, double frequency, double duty) c
     return pv * core_volume;
 }
 
+double InductorModel::core_loss_least(double delta_i, double frequency) const {
+    if (!(core.alpha >= 1.0) || !(delta_i > 0.0) || !(frequency > 0.0) || core_volume <= 0.0 ||
+        core.k <= 0.0)
+        return 0.0;
+    const double delta_b = b_sat * delta_i / isat;
+    const double ki = core_ki > 0.0 ? core_ki : igse_ki(core);
+    // f^α·(2·0.5^(1−α)) = (2f)^α.
+    return ki * std::pow(delta_b, core.beta) * std::pow(2.0 * frequency, core.alpha) * core_volume;
+}
+
 double igse_ki(const Steinmetz& s) {
     // k_i = k / ((2π)^(α−1)·∫₀^2π |cos θ|^α·2^(β−α) dθ), Venkatachalam et al., COMPEL 2002.
     // The integral has the closed form 2·√π·Γ((α+1)/2)/Γ(α/2 + 1) (Euler's beta integral),

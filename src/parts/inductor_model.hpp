@@ -35,6 +35,9 @@ struct InductorModel {
     double r_ac(double frequency, double temperature, bool use_max = false) const;
     // Core loss (W) for a triangular current ripple delta_i (A p-p) at f with duty D (iGSE).
     double core_loss(double delta_i, double frequency, double duty) const;
+    // The least core loss over the duty: at D = 0.5, since D^(1−α) + (1−D)^(1−α) is convex and
+    // symmetric for α >= 1; 0 for α < 1 (no such least is claimed). Two powers instead of four.
+    double core_loss_least(double delta_i, double frequency) const;
 
 private:
     // x^rolloff_p; the two catalog shapes use integer exponents, so no std::pow for them.

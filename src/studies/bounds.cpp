@@ -52,11 +52,13 @@ struct Interval {
 
 class InductorBounder {
 public:
+    // `corners`: part_corners(c, l.tolerance), outliving the bounder.
     InductorBounder(const ScreenContext& c, const parts::Inductor& l, const parts::InductorModel& m,
-                    const optimisation::Scales& s, const parts::DiodeModel* diode = nullptr,
+                    const optimisation::Scales& s, const std::vector<EnvelopeCorner>& corners,
+                    const parts::DiodeModel* diode = nullptr,
                     const DiodeBound* diode_bound = nullptr)
         : c_(c), d_(*c.design), l_(l), m_(m), s_(s), diode_(diode), diode_bound_(diode_bound),
-          corners_(part_corners(c, l.tolerance)) {
+          corners_(corners) {
         if (diode_ != nullptr) {
             const auto& lim = d_.limits;
             tj_bound_ = lim.tj_max ? std::min(diode_->tj_max, *lim.tj_max) : diode_->tj_max;
@@ -305,7 +307,7 @@ public:
 
             // Inductor heating (T_L = T_a + R_th·(copper + core), as the engine has it) from below:
             // each pass of the map from the ambient stays below its fixed point.
-            const double core = m_.core.alpha >= 1.0 ? m_.core_loss(di_lb, f_lb, 0.5) : 0.0;
+            const double core = m_.core_loss_least(di_lb, f_lb);
             double t_l = k.ambient, copper = 0.0;
             for (int pass = 0; pass < 3; ++pass) {
                 copper = i_lb * i_lb * m_.dcr(t_l, k.dcr_max);
@@ -469,7 +471,7 @@ private:
     const parts::DiodeModel* diode_ = nullptr;
     const DiodeBound* diode_bound_ = nullptr;
     double tj_bound_ = 0.0;
-    std::vector<EnvelopeCorner> corners_;
+    const std::vector<EnvelopeCorner>& corners_;
     std::vector<CornerParts> parts_;
     double peak_cap_ = 0.0;
     double t_l_bound_ = 0.0;
@@ -478,16 +480,30 @@ private:
 } // namespace
 
 InductorBound inductor_bound(const ScreenContext& c, const parts::Inductor& l,
+                             const parts::InductorModel& m, const optimisation::Scales& s,
+                             const std::vector<EnvelopeCorner>& corners) {
+    return InductorBounder(c, l, m, s, corners).run();
+}
+
+InductorBound inductor_bound(const ScreenContext& c, const parts::Inductor& l,
                              const parts::InductorModel& m, const optimisation::Scales& s) {
-    return InductorBounder(c, l, m, s).run();
+    return inductor_bound(c, l, m, s, part_corners(c, l.tolerance));
+}
+
+InductorBound pair_inductor_bound(const ScreenContext& c, const parts::Inductor& l,
+                                  const parts::InductorModel& m, const InductorBound& b,
+                                  const parts::DiodeModel& diode, const DiodeBound& db,
+                                  const optimisation::Scales& s,
+                                  const std::vector<EnvelopeCorner>& corners) {
+    if (!b.feasible || b.stretches.empty()) return b;
+    return InductorBounder(c, l, m, s, corners, &diode, &db).rebound(b.stretches);
 }
 
 InductorBound pair_inductor_bound(const ScreenContext& c, const parts::Inductor& l,
                                   const parts::InductorModel& m, const InductorBound& b,
                                   const parts::DiodeModel& diode, const DiodeBound& db,
                                   const optimisation::Scales& s) {
-    if (!b.feasible || b.stretches.empty()) return b;
-    return InductorBounder(c, l, m, s, &diode, &db).rebound(b.stretches);
+    return pair_inductor_bound(c, l, m, b, diode, db, s, part_corners(c, l.tolerance));
 }
 
 DiodeBound diode_bound(const ScreenContext& c, const parts::Diode& diode,

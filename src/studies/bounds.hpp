@@ -70,6 +70,11 @@ struct DiodeBound {
     std::vector<Settling> settling;
 };
 
+// `corners` is part_corners(c, l.tolerance): a caller bounding many parts makes it once per
+// tolerance. The overloads without it make it themselves.
+InductorBound inductor_bound(const ScreenContext& c, const parts::Inductor& l,
+                             const parts::InductorModel& m, const optimisation::Scales& s,
+                             const std::vector<EnvelopeCorner>& corners);
 InductorBound inductor_bound(const ScreenContext& c, const parts::Inductor& l,
                              const parts::InductorModel& m, const optimisation::Scales& s);
 // The inductor's stretches bounded again with this diode's forward drop in place of the 3 V
@@ -77,6 +82,11 @@ InductorBound inductor_bound(const ScreenContext& c, const parts::Inductor& l,
 // where CCM is certain, the diode's conduction over the volt-second share of the period instead
 // of duty_slack·(1 − Vo/Vin): `feasible` false when no setting in range can meet the limits with
 // this pair. Its `loss` then includes what the diode's conduction adds to diode_bound's floor.
+InductorBound pair_inductor_bound(const ScreenContext& c, const parts::Inductor& l,
+                                  const parts::InductorModel& m, const InductorBound& b,
+                                  const parts::DiodeModel& diode, const DiodeBound& db,
+                                  const optimisation::Scales& s,
+                                  const std::vector<EnvelopeCorner>& corners);
 InductorBound pair_inductor_bound(const ScreenContext& c, const parts::Inductor& l,
                                   const parts::InductorModel& m, const InductorBound& b,
                                   const parts::DiodeModel& diode, const DiodeBound& db,

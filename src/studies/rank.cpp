@@ -205,13 +205,30 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
     };
     std::vector<LPrep> lprep(res.inductors_used.size());
     std::vector<DPrep> dprep(res.diodes_used.size());
+    // The corners of an inductor depend on its tolerance alone, and catalogs use few tolerances:
+    // made once for each, for every bound of its inductors.
+    // (A NaN, which validated catalogs cannot hold, sorts last so the order stays strict.)
+    auto tol_less = [](double a, double b) { return !std::isnan(a) && (std::isnan(b) || a < b); };
+    std::vector<double> tolerances;
+    for (const auto i : res.inductors_used) tolerances.push_back(inductors[i].tolerance);
+    std::sort(tolerances.begin(), tolerances.end(), tol_less);
+    tolerances.erase(std::unique(tolerances.begin(), tolerances.end(),
+                                 [&](double a, double b) { return !tol_less(a, b) && !tol_less(b, a); }),
+                     tolerances.end());
+    std::vector<std::vector<EnvelopeCorner>> corner_sets;
+    for (const double t : tolerances) corner_sets.push_back(part_corners(ctx, t));
+    auto corners_of = [&](const parts::Inductor& part) -> const std::vector<EnvelopeCorner>& {
+        const auto at =
+            std::lower_bound(tolerances.begin(), tolerances.end(), part.tolerance, tol_less);
+        return corner_sets[static_cast<std::size_t>(at - tolerances.begin())];
+    };
     parallel_for(lprep.size(), threads, [&](std::size_t k) {
         const auto& part = inductors[res.inductors_used[k]];
         try {
             const auto& m = lprep[k].model.emplace(parts::make_model(part));
             lprep[k].reasons = screen_inductor(ctx, part, m);
             if (lprep[k].reasons.empty()) {
-                lprep[k].bound = inductor_bound(ctx, part, m, res.scales);
+                lprep[k].bound = inductor_bound(ctx, part, m, res.scales, corners_of(part));
                 if (lprep[k].bound.window) lprep[k].reasons.push_back(*lprep[k].bound.window);
             }
         } catch (const std::exception& e) {
@@ -365,8 +382,9 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         const auto& db = dprep[job.dk].bound;
         // The inductor's bound with this diode's own forward drop: tighter, and it may show that
         // no setting can meet the limits with this pair.
-        const InductorBound lb = pair_inductor_bound(
-            ctx, l, *lprep[job.lk].model, lprep[job.lk].bound, *dprep[job.dk].model, db, scales);
+        const InductorBound lb =
+            pair_inductor_bound(ctx, l, *lprep[job.lk].model, lprep[job.lk].bound,
+                                *dprep[job.dk].model, db, scales, corners_of(l));
         if (!options.exhaustive) {
             if (!lb.feasible) {
                 job.skipped = true;

@@ -185,6 +185,22 @@ TEST(InductorModel, CoreLossUsesFluxProportionalToCurrent) {
     EXPECT_DOUBLE_EQ(bare.core_loss(di, f, d), m.core_loss(di, f, d));
 }
 
+TEST(InductorModel, LeastCoreLossOverTheDutyIsAtHalf) {
+    // iGSE's duty factor D^(1−α) + (1−D)^(1−α) (Venkatachalam et al., COMPEL 2002) is convex and
+    // symmetric for α > 1, so its least is at D = 0.5, where it equals 2^α.
+    const auto m = make_model(sample_part());
+    ASSERT_GT(m.core.alpha, 1.0);
+    const double di = 0.6, f = 300e3;
+    const double least = m.core_loss_least(di, f);
+    EXPECT_NEAR(least, m.core_loss(di, f, 0.5), 1e-12 * least);
+    for (double d : {0.01, 0.2, 0.45, 0.55, 0.8, 0.99}) EXPECT_LT(least, m.core_loss(di, f, d)) << d;
+    EXPECT_EQ(m.core_loss_least(0.0, f), 0.0);
+    EXPECT_EQ(m.core_loss_least(di, 0.0), 0.0);
+    InductorModel below_one = m;
+    below_one.core.alpha = 0.9; // no least claimed: the floor is zero
+    EXPECT_EQ(below_one.core_loss_least(di, f), 0.0);
+}
+
 TEST(InductorModel, ThermalResistanceReproducesRatedRise) {
     const auto m = make_model(sample_part());
     // The rating defines R_th: at Irms in the rating ambient (the DCR's stated temperature) the
