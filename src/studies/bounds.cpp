@@ -30,6 +30,7 @@ struct CornerParts {
     double r_off_ub = 0.0; // Ω: sense + hot DCR, the off-path resistance at most
     double r_off_lb = 0.0; // Ω: sense + DCR at the ambient, the off-path resistance at least
     double r_on_lb = 0.0;  // Ω: switch (as the engine takes it) + sense + DCR at the ambient
+    double ron = 0.0;      // Ω: the switch's on-resistance as the engine takes it
     double l_lo_cap = 0.0; // H: inductance at the Isat limit
     bool capacitor = false;
     double cap = 0.0, esr = 0.0; // F, Ω of the output capacitor when it takes ripple
@@ -79,6 +80,7 @@ public:
             p.r_off_ub = rs + dcr_ub;
             p.r_off_lb = rs + std::max(0.0, m.dcr(k.ambient, false));
             p.r_on_lb = ron + p.r_off_lb;
+            p.ron = ron;
             p.capacitor = cap > 0.0 && k.r > 0.0;
             p.cap = cap;
             p.esr = d_.output_capacitor ? std::max(0.0, d_.output_capacitor->esr) : 0.0;
@@ -112,17 +114,19 @@ public:
 
     // With a diode and CCM certain (the valley above zero), the diode conducts for the whole off
     // interval, and volt-second balance gives t_off/T = V_on/(V_on + V_off) >= von_lb/(von_lb +
-    // voff_ub) (Erickson & Maksimović 2nd ed. ch. 2). What this adds to the diode's heating floor,
-    // which assumes only duty_slack·(1 − Vo/Vin) (diode_bound): the same junction balance with
-    // the larger share of the period.
-    double diode_excess(const EnvelopeCorner& k, double valley_lb, double von_lb,
-                        double voff_ub) const {
+    // voff_ub) (Erickson & Maksimović 2nd ed. ch. 2). Its mean current there, `mean_off`, may be
+    // above the current the junction tables take: V_f·i is convex and V_f rises with i, so
+    // the conduction loss is at least V_f(I_k)·mean_off, which the tables give as a share of the
+    // period scaled by mean_off/I_k. What this adds to the diode's heating floor, which assumes
+    // only EnvelopeCorner::off_share at I_k (diode_bound): the same junction balance.
+    double diode_excess(const EnvelopeCorner& k, double valley_lb, double von_lb, double voff_ub,
+                        double mean_off) const {
         if (diode_ == nullptr || diode_bound_ == nullptr || !(valley_lb > 0.0) || !(von_lb > 0.0) ||
             k.vin <= 0.0 || k.current <= 0.0)
             return 0.0;
-        const double off = von_lb / (von_lb + voff_ub);
-        const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
-        const double floor_off = duty_slack * (1.0 - duty);
+        const double off =
+            von_lb / (von_lb + voff_ub) * std::max(1.0, mean_off / k.current_lb());
+        const double floor_off = k.off_share;
         if (!(off > floor_off)) return 0.0;
         for (const auto& b : diode_bound_->nominal)
             if (b.point() == operating_point(k))
@@ -197,6 +201,8 @@ public:
             double i_lb = 0.0, i_ub = 0.0, peak_lb = 0.0, valley_lb = 0.0;
             double di_lb = 0.0, f_lb = 0.0, f_ub = INFINITY;
             bool dcm_certain = false;    // the valley cannot stay above zero
+            // Over each ramp: the off-voltage at least, the on-voltage at most, L at most.
+            double voff_least = 0.0, von_most = 0.0, l_top = 0.0;
             double triangle_share = 0.0; // PWM: an ideal triangle's load p-p per A of ΔI (CCM)
             if (hysteretic(c_)) {
                 // The comparator trips at I ± b/2; the switch follows t_d later, so the peak is
@@ -224,6 +230,9 @@ public:
                 // t_on + t_off <= L_hi·ΔI·(1/Von_min + 1/Voff_min); DCM adds a rest of at most t_d.
                 if (g_lb > 0.0 && di_ub > 0.0)
                     f_lb = 1.0 / (l_hi * di_ub / g_lb + (valley_min < 0.0 ? td : 0.0));
+                voff_least = voff_lb;
+                von_most = von_ub_ramp;
+                l_top = l_hi;
                 const double g_ub_ramp = volt_second_rate(von_ub_ramp, voff_ub);
                 if (di_lb > 0.0 && g_ub_ramp > 0.0) f_ub = g_ub_ramp / (l_lo * di_lb);
                 // The mean sits near (peak + valley)/2 = I + t_d·(Von − Voff)/(2L).
@@ -259,6 +268,9 @@ public:
                     vload_lb(valley_lb) + valley_lb * p.r_off_lb + drop_min(valley_lb, p);
                 if (valley_lb > 0.0) // CCM certain
                     di_lb = std::max(di_lb, volt_second_rate(von_lb, voff_valley) / (p.l_hi * x2));
+                voff_least = voff_valley;
+                von_most = std::max(0.0, k.vin - vload_lb(valley_lb) - valley_lb * p.r_on_lb);
+                l_top = p.l_hi;
                 // In CCM the duty follows from flux balance, V_on·D = V_off·(1 − D), between its
                 // extremes; the capacitor's divider passes the least of the triangle's ripple
                 // there at the highest frequency (triangle_load_ripple falls with f). The range is
@@ -326,9 +338,29 @@ public:
             const double e_sw = 0.5 * k.vin * (valley_lb * sw.rise_time + peak_lb * sw.fall_time) +
                                 sw.gate_charge * sw.drive_voltage +
                                 0.5 * sw.output_capacitance * k.vin * k.vin;
+            // With CCM certain: the switch conducts for D >= V_off/(V_on + V_off) of the period
+            // (volt-second balance, Erickson & Maksimović 2nd ed. ch. 2) with a mean current on
+            // each ramp of at least valley + h·ΔI (ramp_mean_share), and R_on·∫i² dt over the
+            // on-time is at least R_on·D·mean² (Cauchy–Schwarz); the sense resistor takes the
+            // cycle's mean. What that adds to the pair-independent floor (corner_loss_floor).
+            double mean_off = 0.0, floor_excess = 0.0;
+            if (valley_lb > 0.0 && von_lb > 0.0 && voff_least > 0.0 && von_most > 0.0 &&
+                l_top > 0.0) {
+                auto ramp_mean = [&](double ratio) {
+                    const double h = ramp_mean_share(ratio);
+                    return (1.0 - h) * valley_lb + h * peak_lb;
+                };
+                const double mean_on = ramp_mean(l_lo * von_lb / (l_top * von_most));
+                mean_off = ramp_mean(l_lo * voff_least / (l_top * voff_ub));
+                const double duty_on = voff_least / (voff_least + von_most);
+                const double i_mean = std::max(i_lb, k.current_lb());
+                const double floor = p.ron * duty_on * mean_on * mean_on +
+                                     std::max(0.0, d_.sense_resistor) * i_mean * i_mean;
+                floor_excess = std::max(0.0, floor - corner_loss_floor(c_, k));
+            }
             const double w = std::max(0.0, k.weight);
-            loss_sum +=
-                w * (copper + core + e_sw * f_lb + diode_excess(k, valley_lb, von_lb, voff_ub));
+            loss_sum += w * (copper + core + e_sw * f_lb + floor_excess +
+                             diode_excess(k, valley_lb, von_lb, voff_ub, mean_off));
             f_sum += w * f_lb;
             fv_sum += w * f_lb * valley_lb * k.vin;
             w_sum += w;
@@ -523,9 +555,8 @@ DiodeBound diode_bound(const ScreenContext& c, const parts::Diode& diode,
         if (k.vin <= 0.0 || k.current <= 0.0) continue;
         // Conduction and leakage from below at the junction's balance (JunctionBalance); the mean
         // of v_f(i)·i over the off-interval is at least v_f(ī)·ī as v_f·i is convex in i.
-        const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
         b.nominal.emplace_back(k, m, tj_bound);
-        loss += w * b.nominal.back().least_heating(duty_slack * (1.0 - duty));
+        loss += w * b.nominal.back().least_heating(k.off_share);
         // Junction charge lost each cycle (the engine's diode switching term without recovery).
         e_sw += w * m.capacitive_energy(k.vin);
     }

@@ -80,7 +80,7 @@ InductorBound inductor_bound(const ScreenContext& c, const parts::Inductor& l,
 // The inductor's stretches bounded again with this diode's forward drop in place of the 3 V
 // allowance (tighter frequency bounds, so more settings closed and higher switching loss) and,
 // where CCM is certain, the diode's conduction over the volt-second share of the period instead
-// of duty_slack·(1 − Vo/Vin): `feasible` false when no setting in range can meet the limits with
+// of EnvelopeCorner::off_share: `feasible` false when no setting in range can meet the limits with
 // this pair. Its `loss` then includes what the diode's conduction adds to diode_bound's floor.
 InductorBound pair_inductor_bound(const ScreenContext& c, const parts::Inductor& l,
                                   const parts::InductorModel& m, const InductorBound& b,

@@ -76,7 +76,7 @@ JunctionFloor junction_floor(const EnvelopeCorner& k, const parts::DiodeModel& m
     const double i = k.current_lb();
     const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
     const double vf = std::min(m.vf(i, k.ambient), m.vf(i, std::max(k.ambient, tj_bound)));
-    j.conduction = duty_slack * (1.0 - duty) * i * std::max(0.0, vf);
+    j.conduction = k.off_share * i * std::max(0.0, vf);
     for (int pass = 0; pass < passes; ++pass) {
         j.leakage = m.leakage(k.vin, j.tj) * k.vin * duty;
         j.tj = k.ambient + m.rth_ja * (j.conduction + j.leakage);
@@ -90,7 +90,7 @@ bool junction_can_settle(const EnvelopeCorner& k, const parts::DiodeModel& m, do
     constexpr int cells = 64;
     const double i = k.current_lb();
     const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
-    const double off = duty_slack * (1.0 - duty) * i;
+    const double off = k.off_share * i;
     auto conduction = [&](double t) { return off * std::max(0.0, m.vf(i, t)); };
     auto leakage = [&](double t) { return m.leakage(k.vin, t) * k.vin * duty; };
     const double h = (tj_bound - k.ambient) / cells;
@@ -176,11 +176,28 @@ double volt_second_rate(double von, double voff) {
     return von + voff > 0.0 ? von * voff / (von + voff) : 0.0;
 }
 
+namespace {
+
+EnvelopeCorner envelope_corner(const design::Design& d, const converter::Corner& k) {
+    EnvelopeCorner e{k.name,      k.vin,       k.point.v0, k.point.r,
+                     k.point.current, k.ambient, k.l_scale, k.dcr_max,
+                     k.nominal,   k.weight,    average_current_share(d)};
+    if (e.vin > 0.0) {
+        const double i = e.current;
+        const double on = e.vin - i * converter::switch_on_resistance(d.sw, e.ambient);
+        const double duty = on > 0.0 ? (e.v0 + e.r * i + i * std::max(0.0, d.sense_resistor)) / on
+                                     : 1.0;
+        e.off_share = duty_slack * (1.0 - std::clamp(duty, 0.0, 1.0));
+    }
+    return e;
+}
+
+} // namespace
+
 std::vector<EnvelopeCorner> part_corners(const ScreenContext& c, double tolerance) {
     std::vector<EnvelopeCorner> out;
     for (const auto& k : converter::make_corners(*c.design, tolerance))
-        out.push_back({k.name, k.vin, k.point.v0, k.point.r, k.point.current, k.ambient, k.l_scale,
-                       k.dcr_max, k.nominal, k.weight, average_current_share(*c.design)});
+        out.push_back(envelope_corner(*c.design, k));
     return out;
 }
 
@@ -189,9 +206,7 @@ ScreenContext make_screen_context(const design::Design& d, const optimisation::S
     c.design = &d;
     c.range = r;
     for (const auto& k : converter::make_corners(d, 0.0)) {
-        EnvelopeCorner e{
-            k.name, k.vin,     k.point.v0, k.point.r, k.point.current,         k.ambient,
-            1.0,    k.dcr_max, k.nominal,  k.weight,  average_current_share(d)};
+        EnvelopeCorner e = envelope_corner(d, k);
         c.vin_max = std::max(c.vin_max, e.vin);
         c.i_max = std::max(c.i_max, e.current);
         c.corners.push_back(std::move(e));
@@ -207,15 +222,21 @@ ScreenContext make_screen_context(const design::Design& d, const optimisation::S
     for (const auto& k : c.corners) {
         if (!k.nominal || k.vin <= 0.0) continue;
         const double w = std::max(0.0, k.weight);
-        const double i = k.current_lb();
-        const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
-        const double ron = converter::switch_on_resistance(d.sw, k.ambient);
-        // I_rms >= I_avg makes the sense term exact; the allowance is for the switch's duty.
-        floor += w * i * i * (std::max(0.0, d.sense_resistor) + loss_slack * duty * ron);
+        floor += w * corner_loss_floor(c, k);
         w_sum += w;
     }
     c.loss_floor = w_sum > 0.0 ? floor / w_sum : 0.0;
     return c;
+}
+
+double corner_loss_floor(const ScreenContext& c, const EnvelopeCorner& k) {
+    if (k.vin <= 0.0) return 0.0;
+    const auto& d = *c.design;
+    const double i = k.current_lb();
+    const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
+    const double ron = converter::switch_on_resistance(d.sw, k.ambient);
+    // I_rms >= I_avg makes the sense term exact; the allowance is for the switch's duty.
+    return i * i * (std::max(0.0, d.sense_resistor) + loss_slack * duty * ron);
 }
 
 std::vector<ScreenReason> screen_inductor(const ScreenContext& c, const parts::Inductor& l,
@@ -311,14 +332,12 @@ std::vector<ScreenReason> screen_diode(const ScreenContext& c, const parts::Diod
                        "reverse voltage " + fmt(c.vin_max, u::Dimension::voltage) + " exceeds " +
                            fmt(lim.vrrm_derating, u::Dimension::ratio) + " of Vrrm " +
                            fmt(diode.vrrm, u::Dimension::voltage)});
-    // Average diode current: (1 - D)·I, with the duty slack for drops.
+    // Average diode current: its share of the period times I (EnvelopeCorner::off_share).
     double id_lb = 0.0;
     std::string at;
     for (const auto& k : c.corners) {
         if (k.vin <= 0.0) continue;
-        const double vo = k.v0 + k.r * k.current;
-        const double off = std::clamp(1.0 - vo / k.vin, 0.0, 1.0);
-        const double id = duty_slack * off * k.current_lb();
+        const double id = k.off_share * k.current_lb();
         if (id > id_lb) {
             id_lb = id;
             at = k.name;

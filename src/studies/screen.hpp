@@ -29,8 +29,9 @@ struct ScreenReason {
 // Allowances shared by the screens and the bounds (engineering margins, common practice):
 // under hysteretic control the average current of a feasible pair is at least current_slack of
 // its target (the thresholds set it only through the ramps' shape, the delay and DCM); the diode
-// conducts for at least duty_slack·(1 − Vo/Vin) of the period (the drops the ideal duty ignores);
-// a diode drops at most diode_drop_max.
+// conducts for at least duty_slack·(1 − D) of the period, D the duty with the design's own switch
+// and sense drops (EnvelopeCorner::off_share; the slack is for the diode's drop, the winding's
+// and DCM); a diode drops at most diode_drop_max.
 constexpr double current_slack = 0.97;
 constexpr double pwm_current_share = 1.0 - 1e-6;
 constexpr double duty_slack = 0.75;
@@ -55,6 +56,10 @@ struct EnvelopeCorner {
     // (converter/steady_state.cpp), so only the solver's tolerance, pwm_current_share.
     double current_share = current_slack;
     double current_lb() const { return current_share * current; }
+    // The share of the period the diode conducts for at least: duty_slack·(1 − D) with
+    // D = (V_load + I·R_sense)/(Vin − I·R_on), the CCM duty before the diode's and the winding's
+    // drops, which only lengthen the on-time (Erickson & Maksimović 2nd ed. ch. 2).
+    double off_share = 0.0;
 };
 
 struct ScreenContext {
@@ -71,6 +76,10 @@ struct ScreenContext {
 };
 
 bool hysteretic(const ScreenContext& c);
+
+// One corner's part of ScreenContext::loss_floor (W): its sense-resistor and switch conduction
+// loss no pair avoids.
+double corner_loss_floor(const ScreenContext& c, const EnvelopeCorner& k);
 
 // A diode's heating from below at one corner: conduction at least off·I·V_f,min (V_f is concave in
 // temperature, so its least value over [ambient, tj_bound] is at an end) and reverse leakage at

@@ -4,8 +4,8 @@
 // - a part screened out because no setting in range can meet the limits is infeasible at every
 //   setting of a dense scan, with every diode (or inductor) of a sample;
 // - at every setting of the scan where a pair is feasible, the stretch bounds hold pointwise:
-//   score bound <= score and optimistic loss <= loss, and the diode's heating floor (its junction
-//   balance) <= its conduction and leakage loss;
+//   score bound <= score and optimistic loss <= loss, over the stretches and at the setting alone,
+//   and the diode's heating floor (its junction balance) <= its conduction and leakage loss;
 // - the probe's restricted loss bound, capped at a feasible point's own score, is still below the
 //   loss there (the tuned point is no worse than the probe, so it lies in the region);
 // - every feasible scan point and every feasible tuned optimum (which sits on its binding limit,
@@ -42,6 +42,18 @@ template <class T> std::vector<std::size_t> sample(const std::vector<T>& v, std:
     return out;
 }
 
+// An example design, or one with a lossy switch ("FILE+lossy-switch": R_on raised so that
+// switch conduction is the largest loss, which makes the bound of that loss visible in the
+// pointwise loss checks).
+design::Design load_case(const std::string& name) {
+    const auto plus = name.find('+');
+    auto d = design::load_design_file(std::string(COILSIEVE_SOURCE_DIR) + "/data/examples/" +
+                                      name.substr(0, plus));
+    if (plus != std::string::npos && name.substr(plus + 1) == "lossy-switch")
+        d.sw.on_resistance = d.control.mode == design::ControlMode::hysteretic ? 5.0 : 0.3;
+    return d;
+}
+
 struct Case {
     design::Design d;
     optimisation::SettingRange range;
@@ -51,7 +63,7 @@ struct Case {
     std::vector<double> scan; // dense values of the free variable
 
     explicit Case(const std::string& file)
-        : d(design::load_design_file(std::string(COILSIEVE_SOURCE_DIR) + "/data/examples/" + file)),
+        : d(load_case(file)),
           range(optimisation::setting_range(d)), scales(optimisation::make_scales(d)),
           ctx(studies::make_screen_context(d, range)), base(converter::default_setting(d)) {
         optimisation::TuneOptions o;
@@ -201,6 +213,15 @@ TEST_P(Bounds, StretchBoundsHoldAtEveryFeasibleSetting) {
                 EXPECT_LE(studies::pair_loss_within(s.ctx, lb, db, s.scales, p.score - cost),
                           p.objectives.loss)
                     << at;
+                // The pair's bounds at this very setting (a stretch of one point): the minimum
+                // over stretches above can hide one stretch's excess, this cannot.
+                studies::InductorBound point = lb;
+                point.stretches = {{x, x, 0.0, 0.0, 0.0, 0.0}};
+                const auto px = studies::pair_inductor_bound(s.ctx, l, m, point, dm, db, s.scales);
+                ASSERT_TRUE(px.feasible) << "the bound closes a feasible setting: " << at;
+                EXPECT_LE(studies::pair_optimistic(s.ctx, px, db).loss, p.objectives.loss) << at;
+                EXPECT_LE(studies::pair_score_bound(s.ctx, px, db, s.scales) + cost, p.score)
+                    << at;
             }
         }
     }
@@ -257,7 +278,9 @@ TEST_P(Bounds, TunedOptimaLieInsideTheOpenSettings) {
 
 INSTANTIATE_TEST_SUITE_P(Examples, Bounds,
                          ::testing::Values("reading-lamp.json", "two-cell-charger.json",
-                                           "workshop-floodlight.json"));
+                                           "workshop-floodlight.json",
+                                           "reading-lamp.json+lossy-switch",
+                                           "two-cell-charger.json+lossy-switch"));
 
 // With PWM the peak is at most I + ΔI (CCM: the valley is below the mean; DCM: the charge
 // I·T >= L·peak²/(2g), Erickson & Maksimović 2nd ed. ch. 5), not the saturation ceiling, so the
