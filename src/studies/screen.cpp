@@ -142,7 +142,14 @@ double JunctionBalance::least_heating(double off) const {
     if (!(rth_ > 0.0)) return trivial;
     const std::size_t n = first_balancing_cell(q);
     if (n == t_.size()) return trivial; // no balance below the limit: infeasible, any floor holds
-    return std::max(trivial, (t_[n] - ambient_ - converter::temperature_tolerance) / rth_);
+    // Tj lies in cell n or above it. Above it, P >= (t[n+1] − Ta)/Rth; in it, V_f is no lower
+    // than at the cell's ends (concave) and the leakage no lower than at its cold end, so
+    // P >= q·min V_f + leakage there, which the crossing keeps at most (t[n+1] − Ta)/Rth + tol.
+    // Either way P is at least the in-cell value (less the engine's tolerance), and at least the
+    // rise to the cell's cold edge.
+    const double tol = converter::temperature_tolerance;
+    const double in_cell = q * std::min(vf_[n], vf_[n + 1]) + leak_[n] - 2.0 * tol / rth_;
+    return std::max({trivial, (t_[n] - ambient_ - tol) / rth_, in_cell});
 }
 
 bool JunctionBalance::can_balance(double off) const {
