@@ -22,6 +22,16 @@ constexpr int edge_refinements = 6;       // halvings of a stretch at the edge o
 constexpr double refine_tolerance = 2e-4; // stop when the bound can rise no more than this (score)
 constexpr double ramp_shape_slack = 0.9; // PWM peak above the mean: 90 % of ΔI/2 (common practice)
 
+// ∫ di/v over [a, b] for a voltage v(i) = c + s·i (s of either sign), infinite unless v > 0 on
+// [a, b]: ln(v(b)/v(a))/s, written with log1p(x)/x so that s = 0 gives (b − a)/c.
+double span_time(double c, double s, double a, double b) {
+    const double va = c + s * a, vb = c + s * b;
+    if (!(va > 0.0) || !(vb > 0.0) || !(b >= a)) return INFINITY;
+    const double x = (vb - va) / va;
+    const double log1p_over_x = std::abs(x) < 1e-8 ? 1.0 - 0.5 * x : std::log1p(x) / x;
+    return (b - a) / va * log1p_over_x;
+}
+
 // What an inductor brings to every corner, independent of the setting.
 struct CornerParts {
     const EnvelopeCorner* k = nullptr;
@@ -228,8 +238,25 @@ public:
                     std::max(0.0, k.vin - vload_lb(valley_lb) - (i_target + b1 / 2.0) * p.r_on_lb);
                 const double di_ub = b2 + td * (von_ub_over + voff_ub) / l_lo;
                 // t_on + t_off <= L_hi·ΔI·(1/Von_min + 1/Voff_min); DCM adds a rest of at most t_d.
-                if (g_lb > 0.0 && di_ub > 0.0)
-                    f_lb = 1.0 / (l_hi * di_ub / g_lb + (valley_min < 0.0 ? td : 0.0));
+                // Tighter: along each ramp the voltage is at least a line in the current (the
+                // load's own drop without a capacitor, its extreme with one, plus the series
+                // drops), so a ramp takes at most L_hi·∫di/v over the widest span it can have:
+                // ending at the peak ceiling on the way up (1/v_on rises with i), starting at the
+                // valley floor on the way down (1/v_off falls with i).
+                double t_ramps = g_lb > 0.0 ? di_ub / g_lb : INFINITY;
+                if (di_ub > 0.0) {
+                    const bool cap = p.capacitor;
+                    const double on_c = cap ? k.vin - vload_ub(peak_ub) : k.vin - k.v0;
+                    const double on_s = cap ? p.r_on_ub : k.r + p.r_on_ub;
+                    const double off_c =
+                        (cap ? vload_lb(valley_lb) : k.v0) + drop_min(valley_lb, p);
+                    const double off_s = cap ? p.r_off_lb : k.r + p.r_off_lb;
+                    t_ramps = std::min(t_ramps,
+                                       span_time(on_c, -on_s, peak_ub - di_ub, peak_ub) +
+                                           span_time(off_c, off_s, valley_lb, valley_lb + di_ub));
+                }
+                if (t_ramps > 0.0 && std::isfinite(t_ramps))
+                    f_lb = 1.0 / (l_hi * t_ramps + (valley_min < 0.0 ? td : 0.0));
                 voff_least = voff_lb;
                 von_most = von_ub_ramp;
                 l_top = l_hi;
