@@ -290,20 +290,36 @@ public:
                 const double di_ccm = g_lb / (p.l_hi * x2);
                 di_lb = std::min(di_ccm, std::sqrt(2.0 * i_lb * di_ccm));
                 dcm_certain = di_ccm > 2.0 * i_ub;
-                // The off-voltage never falls below its value at the valley.
-                const double voff_valley =
-                    vload_lb(valley_lb) + valley_lb * p.r_off_lb + drop_min(valley_lb, p);
+                // The off-voltage never falls below its value at the valley, the on-voltage
+                // never rises above it.
+                auto voff_at = [&](double valley) {
+                    return vload_lb(valley) + valley * p.r_off_lb + drop_min(valley, p);
+                };
+                auto von_at = [&](double valley) {
+                    return std::max(0.0, k.vin - vload_lb(valley) - valley * p.r_on_lb);
+                };
+                // In CCM the mean is at most valley + (1 − h)·ΔI (ramp_mean_share, the bound's
+                // other side), so the valley is at least I − (1 − h)·ΔI_max, with h from the
+                // ramps' voltage and inductance ranges at the valley found so far.
+                double h = 0.0;
+                if (valley_lb > 0.0 && von_ub > 0.0 && voff_ub > 0.0) {
+                    h = ramp_mean_share(std::min(l_lo * von_lb / (p.l_hi * von_at(valley_lb)),
+                                                 l_lo * voff_at(valley_lb) / (p.l_hi * voff_ub)));
+                    valley_lb = std::max(valley_lb, i_lb - (1.0 - h) * di_ub);
+                }
+                const double voff_valley = voff_at(valley_lb);
                 if (valley_lb > 0.0) // CCM certain
                     di_lb = std::max(di_lb, volt_second_rate(von_lb, voff_valley) / (p.l_hi * x2));
                 voff_least = voff_valley;
-                von_most = std::max(0.0, k.vin - vload_lb(valley_lb) - valley_lb * p.r_on_lb);
+                von_most = von_at(valley_lb);
                 l_top = p.l_hi;
                 // In CCM the duty follows from flux balance, V_on·D = V_off·(1 − D), between its
                 // extremes; the capacitor's divider passes the least of the triangle's ripple
-                // there at the highest frequency (triangle_load_ripple falls with f). The range is
-                // narrow (at most 0.058 wide over the example charger's pairs) and the function nearly linear
-                // over it, so the least of its ends stands for its least (within 0.5 % for ranges
-                // up to 0.1 wide: tested, and covered by ramp_shape_slack).
+                // there at the highest frequency (triangle_load_ripple falls with f). The range
+                // is narrow (at most 0.058 wide over the example charger's pairs) and the
+                // function nearly linear over it, so the least of its ends stands for its least
+                // (within 0.5 % for ranges up to 0.1 wide: tested, and covered by
+                // ramp_shape_slack).
                 if (p.capacitor && von_lb > 0.0) {
                     const double d_lo = voff_valley / (von_ub + voff_valley);
                     const double d_hi = voff_ub / (von_lb + voff_ub);
@@ -314,8 +330,10 @@ public:
                 }
                 // The mean of near-linear ramps sits mid-way between valley and peak (CCM), and
                 // below peak/2 in DCM, so peak >= I + ΔI/2; ramp_shape_slack allows for the
-                // curvature of R–L ramps and L(i).
-                peak_lb = i_lb + 0.5 * ramp_shape_slack * di_lb;
+                // curvature of R–L ramps and L(i). With CCM certain the mean is at most
+                // peak − h·ΔI, so peak >= I + h·ΔI without an allowance.
+                peak_lb = valley_lb > 0.0 ? i_lb + h * di_lb
+                                          : i_lb + 0.5 * ramp_shape_slack * di_lb;
                 f_lb = x1;
                 f_ub = x2;
             }

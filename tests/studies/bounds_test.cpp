@@ -222,6 +222,8 @@ TEST_P(Bounds, StretchBoundsHoldAtEveryFeasibleSetting) {
                 EXPECT_LE(studies::pair_optimistic(s.ctx, px, db).loss, p.objectives.loss) << at;
                 EXPECT_LE(studies::pair_score_bound(s.ctx, px, db, s.scales) + cost, p.score)
                     << at;
+                EXPECT_LE(px.ripple, p.objectives.ripple + 1e-12) << at;
+                EXPECT_GE(px.margin, p.objectives.margin - 1e-12) << at;
             }
         }
     }

@@ -161,7 +161,8 @@ TEST(JunctionBalance, LargestSettlingShareSeparatesBalanceFromRunaway) {
 
 // The least-mean lemma behind ramp_mean_share, checked by construction: the two-level density it
 // names reaches the share exactly, and no density within the same limits (random piecewise
-// constant ones on 64 steps) has a lower mean.
+// constant ones on 64 steps) has a lower mean, nor, mirrored, a mean above 1 − h (the side the
+// PWM valley and peak bounds use).
 TEST(RampMean, TwoLevelDensityIsTheLeastMean) {
     EXPECT_DOUBLE_EQ(studies::ramp_mean_share(1.0), 0.5); // a straight ramp: the midpoint
     EXPECT_DOUBLE_EQ(studies::ramp_mean_share(0.0), 0.0);
@@ -186,6 +187,7 @@ TEST(RampMean, TwoLevelDensityIsTheLeastMean) {
                 m1 += rho * mid;
             }
             EXPECT_GE(m1 / m0, h - 1e-12) << "r " << r << " trial " << trial;
+            EXPECT_LE(m1 / m0, 1.0 - h + 1e-12) << "r " << r << " trial " << trial;
         }
     }
 }
