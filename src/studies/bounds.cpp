@@ -337,6 +337,18 @@ public:
                 f_lb = x1;
                 f_ub = x2;
             }
+            // With CCM certain each ramp runs from the valley to the peak with a time density
+            // dt/di = L(i)/|v_L(i)| whose least over its largest is at least r (as for
+            // ramp_mean_share). A density at least r times its mean over a range of width ΔI
+            // gives the current a variance of at least r·ΔI²/12 (the uniform one's ΔI²/12,
+            // scaled), for each ramp and for the cycle (whose density ratio is at least the
+            // smaller of the two).
+            const bool ramps_known = valley_lb > 0.0 && von_lb > 0.0 && voff_least > 0.0 &&
+                                     von_most > 0.0 && l_top > 0.0;
+            const double r_on = ramps_known ? l_lo * von_lb / (l_top * von_most) : 0.0;
+            const double r_off = ramps_known ? l_lo * voff_least / (l_top * voff_ub) : 0.0;
+            const double spread = di_lb * di_lb / 12.0; // a uniform ramp's variance
+            const double var_cycle = std::min(r_on, r_off) * spread;
 
             // Limits any feasible pair meets at every corner.
             if (peak_lb > peak_cap_) close("isat");
@@ -367,7 +379,8 @@ public:
             const double core = m_.core_loss_least(di_lb, f_lb);
             double t_l = k.ambient, copper = 0.0;
             for (int pass = 0; pass < 3; ++pass) {
-                copper = i_lb * i_lb * m_.dcr(t_l, k.dcr_max);
+                // I_rms² = I² + variance, and the engine's ripple sees R_ac >= DCR.
+                copper = (i_lb * i_lb + var_cycle) * m_.dcr(t_l, k.dcr_max);
                 t_l = k.ambient + m_.rth * (copper + core);
             }
             if (t_l > t_l_bound_) close("t_inductor");
@@ -386,21 +399,21 @@ public:
             // With CCM certain: the switch conducts for D >= V_off/(V_on + V_off) of the period
             // (volt-second balance, Erickson & Maksimović 2nd ed. ch. 2) with a mean current on
             // each ramp of at least valley + h·ΔI (ramp_mean_share), and R_on·∫i² dt over the
-            // on-time is at least R_on·D·mean² (Cauchy–Schwarz); the sense resistor takes the
-            // cycle's mean. What that adds to the pair-independent floor (corner_loss_floor).
+            // on-time is R_on·D·(mean² + variance); the sense resistor takes the cycle's. What
+            // that adds to the pair-independent floor (corner_loss_floor).
             double mean_off = 0.0, floor_excess = 0.0;
-            if (valley_lb > 0.0 && von_lb > 0.0 && voff_least > 0.0 && von_most > 0.0 &&
-                l_top > 0.0) {
+            if (ramps_known) {
                 auto ramp_mean = [&](double ratio) {
                     const double h = ramp_mean_share(ratio);
                     return (1.0 - h) * valley_lb + h * peak_lb;
                 };
-                const double mean_on = ramp_mean(l_lo * von_lb / (l_top * von_most));
-                mean_off = ramp_mean(l_lo * voff_least / (l_top * voff_ub));
+                const double mean_on = ramp_mean(r_on);
+                mean_off = ramp_mean(r_off);
                 const double duty_on = voff_least / (voff_least + von_most);
                 const double i_mean = std::max(i_lb, k.current_lb());
-                const double floor = p.ron * duty_on * mean_on * mean_on +
-                                     std::max(0.0, d_.sense_resistor) * i_mean * i_mean;
+                const double floor =
+                    p.ron * duty_on * (mean_on * mean_on + r_on * spread) +
+                    std::max(0.0, d_.sense_resistor) * (i_mean * i_mean + var_cycle);
                 floor_excess = std::max(0.0, floor - corner_loss_floor(c_, k));
             }
             const double w = std::max(0.0, k.weight);

@@ -42,15 +42,18 @@ template <class T> std::vector<std::size_t> sample(const std::vector<T>& v, std:
     return out;
 }
 
-// An example design, or one with a lossy switch ("FILE+lossy-switch": R_on raised so that
-// switch conduction is the largest loss, which makes the bound of that loss visible in the
-// pointwise loss checks).
+// An example design, or one with a lossy switch or sense resistor ("FILE+lossy-switch": R_on
+// raised so that switch conduction is the largest loss; "FILE+lossy-sense": a 2 Ω sense
+// resistor, whose I_rms² shows the ripple's variance). Either makes the bound of that loss visible
+// in the pointwise loss checks.
 design::Design load_case(const std::string& name) {
     const auto plus = name.find('+');
     auto d = design::load_design_file(std::string(COILSIEVE_SOURCE_DIR) + "/data/examples/" +
                                       name.substr(0, plus));
-    if (plus != std::string::npos && name.substr(plus + 1) == "lossy-switch")
+    const std::string variant = plus == std::string::npos ? "" : name.substr(plus + 1);
+    if (variant == "lossy-switch")
         d.sw.on_resistance = d.control.mode == design::ControlMode::hysteretic ? 5.0 : 0.3;
+    if (variant == "lossy-sense") d.sense_resistor = 2.0;
     return d;
 }
 
@@ -282,7 +285,8 @@ INSTANTIATE_TEST_SUITE_P(Examples, Bounds,
                          ::testing::Values("reading-lamp.json", "two-cell-charger.json",
                                            "workshop-floodlight.json",
                                            "reading-lamp.json+lossy-switch",
-                                           "two-cell-charger.json+lossy-switch"));
+                                           "two-cell-charger.json+lossy-switch",
+                                           "workshop-floodlight.json+lossy-sense"));
 
 // With PWM the peak is at most I + ΔI (CCM: the valley is below the mean; DCM: the charge
 // I·T >= L·peak²/(2g), Erickson & Maksimović 2nd ed. ch. 5), not the saturation ceiling, so the

@@ -162,7 +162,9 @@ TEST(JunctionBalance, LargestSettlingShareSeparatesBalanceFromRunaway) {
 // The least-mean lemma behind ramp_mean_share, checked by construction: the two-level density it
 // names reaches the share exactly, and no density within the same limits (random piecewise
 // constant ones on 64 steps) has a lower mean, nor, mirrored, a mean above 1 − h (the side the
-// PWM valley and peak bounds use).
+// PWM valley and peak bounds use). The bounds also take the variance over such a density as at
+// least r/12 (the uniform one's 1/12, scaled by the density's least over its largest): checked on
+// the same densities (each step's own spread, 1/(12·64²), included).
 TEST(RampMean, TwoLevelDensityIsTheLeastMean) {
     EXPECT_DOUBLE_EQ(studies::ramp_mean_share(1.0), 0.5); // a straight ramp: the midpoint
     EXPECT_DOUBLE_EQ(studies::ramp_mean_share(0.0), 0.0);
@@ -179,15 +181,18 @@ TEST(RampMean, TwoLevelDensityIsTheLeastMean) {
         EXPECT_NEAR(moment / mass, h, 1e-12) << "r " << r;
         constexpr int steps = 64;
         for (int trial = 0; trial < 2000; ++trial) {
-            double m0 = 0.0, m1 = 0.0;
+            double m0 = 0.0, m1 = 0.0, m2 = 0.0;
             for (int n = 0; n < steps; ++n) {
                 const double rho = r + (1.0 - r) * (uniform() < 0.5 ? 0.0 : 1.0) * uniform();
                 const double mid = (n + 0.5) / steps;
                 m0 += rho;
                 m1 += rho * mid;
+                m2 += rho * (mid * mid + 1.0 / (12.0 * steps * steps));
             }
-            EXPECT_GE(m1 / m0, h - 1e-12) << "r " << r << " trial " << trial;
-            EXPECT_LE(m1 / m0, 1.0 - h + 1e-12) << "r " << r << " trial " << trial;
+            const double mean = m1 / m0;
+            EXPECT_GE(mean, h - 1e-12) << "r " << r << " trial " << trial;
+            EXPECT_LE(mean, 1.0 - h + 1e-12) << "r " << r << " trial " << trial;
+            EXPECT_GE(m2 / m0 - mean * mean, r / 12.0 - 1e-12) << "r " << r << " trial " << trial;
         }
     }
 }
