@@ -134,8 +134,7 @@ public:
         if (diode_ == nullptr || diode_bound_ == nullptr || !(valley_lb > 0.0) || !(von_lb > 0.0) ||
             k.vin <= 0.0 || k.current <= 0.0)
             return 0.0;
-        const double off =
-            von_lb / (von_lb + voff_ub) * std::max(1.0, mean_off / k.current_lb());
+        const double off = von_lb / (von_lb + voff_ub) * std::max(1.0, mean_off / k.current_lb());
         const double floor_off = k.off_share;
         if (!(off > floor_off)) return 0.0;
         for (const auto& b : diode_bound_->nominal)
@@ -210,7 +209,7 @@ public:
 
             double i_lb = 0.0, i_ub = 0.0, peak_lb = 0.0, valley_lb = 0.0;
             double di_lb = 0.0, f_lb = 0.0, f_ub = INFINITY;
-            bool dcm_certain = false;    // the valley cannot stay above zero
+            bool dcm_certain = false; // the valley cannot stay above zero
             // Over each ramp: the off-voltage at least, the on-voltage at most, L at most.
             double voff_least = 0.0, von_most = 0.0, l_top = 0.0;
             double triangle_share = 0.0; // PWM: an ideal triangle's load p-p per A of ΔI (CCM)
@@ -332,8 +331,8 @@ public:
                 // below peak/2 in DCM, so peak >= I + ΔI/2; ramp_shape_slack allows for the
                 // curvature of R–L ramps and L(i). With CCM certain the mean is at most
                 // peak − h·ΔI, so peak >= I + h·ΔI without an allowance.
-                peak_lb = valley_lb > 0.0 ? i_lb + h * di_lb
-                                          : i_lb + 0.5 * ramp_shape_slack * di_lb;
+                peak_lb =
+                    valley_lb > 0.0 ? i_lb + h * di_lb : i_lb + 0.5 * ramp_shape_slack * di_lb;
                 f_lb = x1;
                 f_ub = x2;
             }

@@ -212,9 +212,10 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
     std::vector<double> tolerances;
     for (const auto i : res.inductors_used) tolerances.push_back(inductors[i].tolerance);
     std::sort(tolerances.begin(), tolerances.end(), tol_less);
-    tolerances.erase(std::unique(tolerances.begin(), tolerances.end(),
-                                 [&](double a, double b) { return !tol_less(a, b) && !tol_less(b, a); }),
-                     tolerances.end());
+    tolerances.erase(
+        std::unique(tolerances.begin(), tolerances.end(),
+                    [&](double a, double b) { return !tol_less(a, b) && !tol_less(b, a); }),
+        tolerances.end());
     std::vector<std::vector<EnvelopeCorner>> corner_sets;
     for (const double t : tolerances) corner_sets.push_back(part_corners(ctx, t));
     auto corners_of = [&](const parts::Inductor& part) -> const std::vector<EnvelopeCorner>& {

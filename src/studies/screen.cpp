@@ -186,14 +186,14 @@ double volt_second_rate(double von, double voff) {
 namespace {
 
 EnvelopeCorner envelope_corner(const design::Design& d, const converter::Corner& k) {
-    EnvelopeCorner e{k.name,      k.vin,       k.point.v0, k.point.r,
-                     k.point.current, k.ambient, k.l_scale, k.dcr_max,
-                     k.nominal,   k.weight,    average_current_share(d)};
+    EnvelopeCorner e{
+        k.name,    k.vin,     k.point.v0, k.point.r, k.point.current,         k.ambient,
+        k.l_scale, k.dcr_max, k.nominal,  k.weight,  average_current_share(d)};
     if (e.vin > 0.0) {
         const double i = e.current;
         const double on = e.vin - i * converter::switch_on_resistance(d.sw, e.ambient);
-        const double duty = on > 0.0 ? (e.v0 + e.r * i + i * std::max(0.0, d.sense_resistor)) / on
-                                     : 1.0;
+        const double duty =
+            on > 0.0 ? (e.v0 + e.r * i + i * std::max(0.0, d.sense_resistor)) / on : 1.0;
         e.off_share = duty_slack * (1.0 - std::clamp(duty, 0.0, 1.0));
     }
     return e;

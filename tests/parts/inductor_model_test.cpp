@@ -193,7 +193,8 @@ TEST(InductorModel, LeastCoreLossOverTheDutyIsAtHalf) {
     const double di = 0.6, f = 300e3;
     const double least = m.core_loss_least(di, f);
     EXPECT_NEAR(least, m.core_loss(di, f, 0.5), 1e-12 * least);
-    for (double d : {0.01, 0.2, 0.45, 0.55, 0.8, 0.99}) EXPECT_LT(least, m.core_loss(di, f, d)) << d;
+    for (double d : {0.01, 0.2, 0.45, 0.55, 0.8, 0.99})
+        EXPECT_LT(least, m.core_loss(di, f, d)) << d;
     EXPECT_EQ(m.core_loss_least(0.0, f), 0.0);
     EXPECT_EQ(m.core_loss_least(di, 0.0), 0.0);
     InductorModel below_one = m;

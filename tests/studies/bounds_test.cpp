@@ -1,6 +1,6 @@
 // The pruning bounds of studies/bounds.hpp checked against the engine itself on the starter
-// catalog, for the three example designs. The pruned == exhaustive test (starter_test.cpp) cannot see a
-// wrong screen, because both runs screen alike; these tests can:
+// catalog, for the three example designs. The pruned == exhaustive test (starter_test.cpp) cannot
+// see a wrong screen, because both runs screen alike; these tests can:
 // - a part screened out because no setting in range can meet the limits is infeasible at every
 //   setting of a dense scan, with every diode (or inductor) of a sample;
 // - at every setting of the scan where a pair is feasible, the stretch bounds hold pointwise:
@@ -66,9 +66,9 @@ struct Case {
     std::vector<double> scan; // dense values of the free variable
 
     explicit Case(const std::string& file)
-        : d(load_case(file)),
-          range(optimisation::setting_range(d)), scales(optimisation::make_scales(d)),
-          ctx(studies::make_screen_context(d, range)), base(converter::default_setting(d)) {
+        : d(load_case(file)), range(optimisation::setting_range(d)),
+          scales(optimisation::make_scales(d)), ctx(studies::make_screen_context(d, range)),
+          base(converter::default_setting(d)) {
         optimisation::TuneOptions o;
         o.prescan_points = 41;
         scan = optimisation::prescan_values(range, o);
@@ -223,8 +223,7 @@ TEST_P(Bounds, StretchBoundsHoldAtEveryFeasibleSetting) {
                 const auto px = studies::pair_inductor_bound(s.ctx, l, m, point, dm, db, s.scales);
                 ASSERT_TRUE(px.feasible) << "the bound closes a feasible setting: " << at;
                 EXPECT_LE(studies::pair_optimistic(s.ctx, px, db).loss, p.objectives.loss) << at;
-                EXPECT_LE(studies::pair_score_bound(s.ctx, px, db, s.scales) + cost, p.score)
-                    << at;
+                EXPECT_LE(studies::pair_score_bound(s.ctx, px, db, s.scales) + cost, p.score) << at;
                 EXPECT_LE(px.ripple, p.objectives.ripple + 1e-12) << at;
                 EXPECT_GE(px.margin, p.objectives.margin - 1e-12) << at;
             }
