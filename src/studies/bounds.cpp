@@ -261,6 +261,22 @@ public:
                 l_top = l_hi;
                 const double g_ub_ramp = volt_second_rate(von_ub_ramp, voff_ub);
                 if (di_lb > 0.0 && g_ub_ramp > 0.0) f_ub = g_ub_ramp / (l_lo * di_lb);
+                // Tighter, as for the floor: along each ramp the voltage is at most a line in
+                // the current, so a ramp takes at least L_lo·∫di/v over the narrowest span it
+                // can have: starting at the valley floor on the way up (1/v_on rises with i),
+                // ending at the peak ceiling on the way down (1/v_off falls with i).
+                if (di_lb > 0.0) {
+                    const bool cap = p.capacitor;
+                    const double on_c = cap ? k.vin - vload_lb(valley_lb) : k.vin - k.v0;
+                    const double on_s = cap ? p.r_on_lb : k.r + p.r_on_lb;
+                    const double off_c = (cap ? vload_ub(peak_ub) : k.v0) + drop_max(peak_ub, p);
+                    const double off_s = cap ? p.r_off_ub : k.r + p.r_off_ub;
+                    const double t_least =
+                        span_time(on_c, -on_s, valley_lb, valley_lb + di_lb) +
+                        span_time(off_c, off_s, peak_ub - di_lb, peak_ub);
+                    if (t_least > 0.0 && std::isfinite(t_least))
+                        f_ub = std::min(f_ub, 1.0 / (l_lo * t_least));
+                }
                 // The mean sits near (peak + valley)/2 = I + t_d·(Von − Voff)/(2L).
                 const double skew_lo = td * (von_lb - voff_ub) / 2.0;
                 const double skew_hi = td * (von_ub - voff_lb) / 2.0;
@@ -275,6 +291,9 @@ public:
                     const double r_off = l_lo * voff_lb / (l_hi * voff_ub);
                     const double h = ramp_mean_share(std::min(r_on, r_off));
                     i_lb = std::max(i_lb, (1.0 - h) * valley_lb + h * peak_lb);
+                    // Mirrored, the mean is at most peak − h·ΔI: the ripple objective's divisor
+                    // (the load's mean) from above without the current allowance.
+                    if (peak_ub - h * di_lb > 0.0) i_ub = std::min(i_ub, peak_ub - h * di_lb);
                 }
             } else {
                 // PWM: the flux swing per cycle is T·g(Von, Voff) in CCM (volt-second balance,
