@@ -271,9 +271,8 @@ public:
                     const double on_s = cap ? p.r_on_lb : k.r + p.r_on_lb;
                     const double off_c = (cap ? vload_ub(peak_ub) : k.v0) + drop_max(peak_ub, p);
                     const double off_s = cap ? p.r_off_ub : k.r + p.r_off_ub;
-                    const double t_least =
-                        span_time(on_c, -on_s, valley_lb, valley_lb + di_lb) +
-                        span_time(off_c, off_s, peak_ub - di_lb, peak_ub);
+                    const double t_least = span_time(on_c, -on_s, valley_lb, valley_lb + di_lb) +
+                                           span_time(off_c, off_s, peak_ub - di_lb, peak_ub);
                     if (t_least > 0.0 && std::isfinite(t_least))
                         f_ub = std::min(f_ub, 1.0 / (l_lo * t_least));
                 }
