@@ -7,6 +7,7 @@
 #include <cmath>
 #include <map>
 #include <numbers>
+#include <queue>
 #include <string>
 #include <vector>
 
@@ -21,6 +22,9 @@ constexpr int max_refinements = 40;       // interval halvings around the minimu
 constexpr int edge_refinements = 6;       // halvings of a stretch at the edge of the window
 constexpr double refine_tolerance = 2e-4; // stop when the bound can rise no more than this (score)
 constexpr double ramp_shape_slack = 0.9; // PWM peak above the mean: 90 % of ΔI/2 (common practice)
+// Halvings of a stretch when a probe's score caps where the tuned setting can lie: the score
+// varies across a stretch by more than the bound's own slack, so finer parts exclude more.
+constexpr int probe_halvings = 3;
 
 // ∫ di/v over [a, b] for a voltage v(i) = c + s·i (s of either sign), infinite unless v > 0 on
 // [a, b]: ln(v(b)/v(a))/s, written with log1p(x)/x so that s = 0 gives (b − a)/c.
@@ -510,6 +514,13 @@ public:
         return summarise(ivs, "any diode");
     }
 
+    // One stretch [x1, x2] bounded, or none when no setting in it can meet the limits.
+    std::optional<SettingStretch> stretch(double x1, double x2) const {
+        const Interval iv = evaluate(x1, x2);
+        if (!iv.feasible) return std::nullopt;
+        return SettingStretch{iv.x1, iv.x2, iv.score, iv.loss, iv.f_nominal, iv.f_valley_v};
+    }
+
     // The given stretches again (with this bounder's diode): no new refinement.
     InductorBound rebound(const std::vector<SettingStretch>& stretches) const {
         std::vector<Interval> ivs;
@@ -687,6 +698,52 @@ double pair_loss_within(const ScreenContext& c, const InductorBound& l, const Di
     }
     if (!std::isfinite(loss)) return pair_optimistic(c, l, d).loss;
     return loss + d.loss + c.loss_floor;
+}
+
+double pair_loss_within(const ScreenContext& c, const parts::Inductor& l,
+                        const parts::InductorModel& m, const InductorBound& b,
+                        const parts::DiodeModel& diode, const DiodeBound& d,
+                        const optimisation::Scales& s, double score_cap,
+                        const std::vector<EnvelopeCorner>& corners) {
+    const double coarse = pair_loss_within(c, b, d, s, score_cap);
+    const double k = c.design->weights.loss / s.power;
+    const double cap = score_cap + 1e-9 * (1.0 + std::abs(score_cap));
+    // Best first over halvings of the stretches under the cap: a node's bound is taken no lower
+    // than its parent's, so the first node popped at full depth holds the least over all parts.
+    struct Node {
+        double loss; // lower bound of the loss over the node's settings
+        double x1, x2;
+        int depth;
+        bool operator>(const Node& o) const { return loss > o.loss; }
+    };
+    std::priority_queue<Node, std::vector<Node>, std::greater<Node>> open;
+    for (const auto& st : b.stretches) {
+        const double sw = diode_switching(st, d);
+        if (st.score + k * sw + d.score <= cap) open.push({st.loss + sw, st.x1, st.x2, 0});
+    }
+    const InductorBounder bounder(c, l, m, s, corners, &diode, &d);
+    const auto& r = c.range;
+    double loss = INFINITY;
+    while (!open.empty()) {
+        const Node n = open.top();
+        open.pop();
+        if (n.depth == probe_halvings) {
+            loss = n.loss;
+            break;
+        }
+        const double xm = r.log_scale && n.x1 > 0.0 ? std::sqrt(n.x1 * n.x2) : 0.5 * (n.x1 + n.x2);
+        for (const auto& [a, z] : {std::pair{n.x1, xm}, std::pair{xm, n.x2}}) {
+            const auto part = bounder.stretch(a, z);
+            if (!part) continue; // no setting there meets the limits: the tuned one is elsewhere
+            const double sw = diode_switching(*part, d);
+            if (part->score + k * sw + d.score <= cap)
+                open.push({std::max(n.loss, part->loss + sw), a, z, n.depth + 1});
+        }
+    }
+    // A stretch's parts cover it, so the probe's own point lies in one that qualifies; none at all
+    // means round-off at the cap: the coarse value stands.
+    if (!std::isfinite(loss)) return coarse;
+    return std::max(coarse, loss + d.loss + c.loss_floor);
 }
 
 std::optional<std::pair<double, double>> open_settings(const InductorBound& b) {

@@ -110,6 +110,15 @@ optimisation::Objectives pair_optimistic(const ScreenContext& c, const InductorB
 // where the pair's score bound is below the cap, and the loss there is at least the result.
 double pair_loss_within(const ScreenContext& c, const InductorBound& l, const DiodeBound& d,
                         const optimisation::Scales& s, double score_cap);
+// The same with each stretch under the cap split into parts bounded again with the pair's diode
+// (`b` is the pair's bound, `corners` part_corners(c, l.tolerance)): the score changes across a
+// stretch by more than the bound's slack, so the parts exclude settings a whole stretch keeps.
+// Never below the coarse value.
+double pair_loss_within(const ScreenContext& c, const parts::Inductor& l,
+                        const parts::InductorModel& m, const InductorBound& b,
+                        const parts::DiodeModel& diode, const DiodeBound& d,
+                        const optimisation::Scales& s, double score_cap,
+                        const std::vector<EnvelopeCorner>& corners);
 
 // The settings a bound leaves open: the hull [lo, hi] of its feasible stretches (none when it
 // leaves none). No setting outside it can meet the limits, so a tuner need not look there.

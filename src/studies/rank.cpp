@@ -417,8 +417,9 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
                         cap = std::min(cap, p.score);
                 if (std::isfinite(cap)) {
                     auto o = job.optimistic;
-                    o.loss = std::max(o.loss,
-                                      pair_loss_within(ctx, lb, db, scales, cap - job.cost_term));
+                    o.loss = std::max(o.loss, pair_loss_within(ctx, l, *lprep[job.lk].model, lb,
+                                                               *dprep[job.dk].model, db, scales,
+                                                               cap - job.cost_term, corners_of(l)));
                     if (dominated_by_front(pareto_vector(o, axes))) {
                         job.skipped = true;
                         return;

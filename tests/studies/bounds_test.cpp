@@ -7,7 +7,8 @@
 //   score bound <= score and optimistic loss <= loss, over the stretches and at the setting alone,
 //   and the diode's heating floor (its junction balance) <= its conduction and leakage loss;
 // - the probe's restricted loss bound, capped at a feasible point's own score, is still below the
-//   loss there (the tuned point is no worse than the probe, so it lies in the region);
+//   loss there (the tuned point is no worse than the probe, so it lies in the region), with whole
+//   stretches and with the stretches under the cap split;
 // - every feasible scan point and every feasible tuned optimum (which sits on its binding limit,
 //   where a bound that closes settings bites first) lies in the settings the bounds leave open.
 // The references are the engine's own evaluations (converter::evaluate_pair); the bounds are
@@ -164,6 +165,7 @@ TEST_P(Bounds, StretchBoundsHoldAtEveryFeasibleSetting) {
         const auto m = parts::make_model(l);
         if (!studies::screen_inductor(s.ctx, l, m).empty()) continue;
         const auto lb = studies::inductor_bound(s.ctx, l, m, s.scales);
+        const auto corners = studies::part_corners(s.ctx, l.tolerance);
         for (std::size_t j : sample(k.diodes, 25)) {
             const auto& di = k.diodes[j];
             const auto dm = parts::make_model(di);
@@ -206,6 +208,11 @@ TEST_P(Bounds, StretchBoundsHoldAtEveryFeasibleSetting) {
                 EXPECT_LE(pb_score, p.score) << at;
                 EXPECT_LE(pb_loss, p.objectives.loss) << at;
                 EXPECT_LE(studies::pair_loss_within(s.ctx, pb, db, s.scales, p.score - cost),
+                          p.objectives.loss)
+                    << at;
+                // And with the stretches under the cap split, as a probe takes it.
+                EXPECT_LE(studies::pair_loss_within(s.ctx, l, m, pb, dm, db, s.scales,
+                                                    p.score - cost, corners),
                           p.objectives.loss)
                     << at;
                 // The diode's own heating floor (its junction balance) holds by itself.
