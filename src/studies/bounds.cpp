@@ -704,12 +704,14 @@ double pair_loss_within(const ScreenContext& c, const parts::Inductor& l,
                         const parts::InductorModel& m, const InductorBound& b,
                         const parts::DiodeModel& diode, const DiodeBound& d,
                         const optimisation::Scales& s, double score_cap,
-                        const std::vector<EnvelopeCorner>& corners) {
+                        const std::vector<EnvelopeCorner>& corners, double enough) {
     const double coarse = pair_loss_within(c, b, d, s, score_cap);
+    if (coarse >= enough) return coarse;
     const double k = c.design->weights.loss / s.power;
     const double cap = score_cap + 1e-9 * (1.0 + std::abs(score_cap));
     // Best first over halvings of the stretches under the cap: a node's bound is taken no lower
-    // than its parent's, so the first node popped at full depth holds the least over all parts.
+    // than its parent's, so the first node popped at full depth holds the least over all parts,
+    // and the least node left bounds them all (enough to stop once it reaches `enough`).
     struct Node {
         double loss; // lower bound of the loss over the node's settings
         double x1, x2;
@@ -727,7 +729,7 @@ double pair_loss_within(const ScreenContext& c, const parts::Inductor& l,
     while (!open.empty()) {
         const Node n = open.top();
         open.pop();
-        if (n.depth == probe_halvings) {
+        if (n.depth == probe_halvings || n.loss + d.loss + c.loss_floor >= enough) {
             loss = n.loss;
             break;
         }

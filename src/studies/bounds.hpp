@@ -27,6 +27,7 @@
 #include "parts/inductor_model.hpp"
 #include "studies/screen.hpp"
 
+#include <cmath>
 #include <optional>
 #include <utility>
 #include <vector>
@@ -113,12 +114,13 @@ double pair_loss_within(const ScreenContext& c, const InductorBound& l, const Di
 // The same with each stretch under the cap split into parts bounded again with the pair's diode
 // (`b` is the pair's bound, `corners` part_corners(c, l.tolerance)): the score changes across a
 // stretch by more than the bound's slack, so the parts exclude settings a whole stretch keeps.
-// Never below the coarse value.
+// Never below the coarse value. It may stop splitting once its bound reaches `enough` (the loss
+// a caller needs to see, e.g. the one that makes the pair dominated).
 double pair_loss_within(const ScreenContext& c, const parts::Inductor& l,
                         const parts::InductorModel& m, const InductorBound& b,
                         const parts::DiodeModel& diode, const DiodeBound& d,
                         const optimisation::Scales& s, double score_cap,
-                        const std::vector<EnvelopeCorner>& corners);
+                        const std::vector<EnvelopeCorner>& corners, double enough = INFINITY);
 
 // The settings a bound leaves open: the hull [lo, hi] of its feasible stretches (none when it
 // leaves none). No setting outside it can meet the limits, so a tuner need not look there.

@@ -326,6 +326,21 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
             if (dominates(f.v, v)) return true;
         return false;
     };
+    // The loss above which a pair with these other objectives is dominated: the least loss of the
+    // front members no worse on every other axis (infinite when none is, or loss is no axis).
+    const auto loss_axis = std::find(axes.begin(), axes.end(), design::Objective::loss);
+    auto loss_to_dominate = [&](const std::vector<double>& v) -> double {
+        if (loss_axis == axes.end()) return INFINITY;
+        const auto li = static_cast<std::size_t>(loss_axis - axes.begin());
+        double least = INFINITY;
+        for (const auto& f : front) {
+            bool no_worse = true;
+            for (std::size_t axis = 0; axis < v.size() && no_worse; ++axis)
+                if (axis != li && f.v[axis] > v[axis]) no_worse = false;
+            if (no_worse) least = std::min(least, f.v[li]);
+        }
+        return least;
+    };
 
     const optimisation::Scales scales = sc;
     const converter::Setting base = converter::default_setting(d);
@@ -417,9 +432,15 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
                         cap = std::min(cap, p.score);
                 if (std::isfinite(cap)) {
                     auto o = job.optimistic;
-                    o.loss = std::max(o.loss, pair_loss_within(ctx, l, *lprep[job.lk].model, lb,
-                                                               *dprep[job.dk].model, db, scales,
-                                                               cap - job.cost_term, corners_of(l)));
+                    // Splitting the stretches pays only where some loss would show the pair
+                    // dominated.
+                    const double enough = loss_to_dominate(pareto_vector(o, axes));
+                    o.loss = std::max(
+                        o.loss, std::isfinite(enough)
+                                    ? pair_loss_within(ctx, l, *lprep[job.lk].model, lb,
+                                                       *dprep[job.dk].model, db, scales,
+                                                       cap - job.cost_term, corners_of(l), enough)
+                                    : pair_loss_within(ctx, lb, db, scales, cap - job.cost_term));
                     if (dominated_by_front(pareto_vector(o, axes))) {
                         job.skipped = true;
                         return;
