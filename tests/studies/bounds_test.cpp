@@ -1,6 +1,7 @@
 // The pruning bounds of studies/bounds.hpp checked against the engine itself on the starter
-// catalog, for the three example designs. The pruned == exhaustive test (starter_test.cpp) cannot
-// see a wrong screen, because both runs screen alike; these tests can:
+// catalog, for the three example designs and three variants of them (load_case). The pruned ==
+// exhaustive test (starter_test.cpp) cannot see a wrong screen, because both runs screen alike;
+// these tests can:
 // - a part screened out because no setting in range can meet the limits is infeasible at every
 //   setting of a dense scan, with every diode (or inductor) of a sample;
 // - at every setting of the scan where a pair is feasible, the stretch bounds hold pointwise:
