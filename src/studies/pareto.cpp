@@ -3,6 +3,8 @@
 #include <algorithm>
 #include <limits>
 #include <numeric>
+#include <stdexcept>
+#include <string>
 
 namespace coilsieve::studies {
 
@@ -50,28 +52,40 @@ std::vector<std::string> pareto_axes(const std::vector<design::Objective>& axes)
     return out;
 }
 
-std::vector<double> pareto_vector(const optimisation::Objectives& o,
-                                  const std::vector<design::Objective>& axes) {
-    std::vector<double> v;
-    v.reserve(axes.size());
-    for (const auto a : axes) switch (a) {
+ParetoPoint pareto_point(const optimisation::Objectives& o,
+                         const std::vector<design::Objective>& axes) {
+    ParetoPoint p;
+    if (axes.size() > p.v.size())
+        throw std::invalid_argument("a Pareto set has at most " + std::to_string(p.v.size()) +
+                                    " objectives, one of each; got " + std::to_string(axes.size()));
+    for (const auto a : axes) {
+        double x = 0.0;
+        switch (a) {
         case design::Objective::loss:
-            v.push_back(o.loss);
+            x = o.loss;
             break;
         case design::Objective::size:
-            v.push_back(o.size);
+            x = o.size;
             break;
         case design::Objective::ripple:
-            v.push_back(o.ripple);
+            x = o.ripple;
             break;
         case design::Objective::margin:
-            v.push_back(1.0 - o.margin);
+            x = 1.0 - o.margin;
             break;
         case design::Objective::cost:
-            v.push_back(o.cost ? *o.cost : std::numeric_limits<double>::infinity());
+            x = o.cost ? *o.cost : std::numeric_limits<double>::infinity();
             break;
         }
-    return v;
+        p.v[p.n++] = x;
+    }
+    return p;
+}
+
+std::vector<double> pareto_vector(const optimisation::Objectives& o,
+                                  const std::vector<design::Objective>& axes) {
+    const auto p = pareto_point(o, axes);
+    return {p.values().begin(), p.values().end()};
 }
 
 } // namespace coilsieve::studies

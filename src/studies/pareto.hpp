@@ -4,6 +4,7 @@
 #include "design/design.hpp"
 #include "optimisation/objectives.hpp"
 
+#include <array>
 #include <cstddef>
 #include <span>
 #include <string>
@@ -28,7 +29,16 @@ std::vector<std::size_t> pareto_front(const std::vector<std::vector<double>>& po
 // set and a slower ranking.
 std::vector<design::Objective> pareto_objectives(const design::Design& d);
 std::vector<std::string> pareto_axes(const std::vector<design::Objective>& axes);
+// A point in the Pareto set's space, held inline: the ranking forms one for every pair it
+// considers. At most one value per objective (an axis list with repeats is refused).
+struct ParetoPoint {
+    std::array<double, 5> v{};
+    std::size_t n = 0;
+    std::span<const double> values() const { return {v.data(), n}; }
+};
 // Every entry minimised: margin enters as 1 - margin.
+ParetoPoint pareto_point(const optimisation::Objectives& o,
+                         const std::vector<design::Objective>& axes);
 std::vector<double> pareto_vector(const optimisation::Objectives& o,
                                   const std::vector<design::Objective>& axes);
 

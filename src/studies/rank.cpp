@@ -10,6 +10,7 @@
 #include <cmath>
 #include <exception>
 #include <limits>
+#include <numeric>
 #include <queue>
 #include <thread>
 
@@ -312,7 +313,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
     const std::size_t n_top = static_cast<std::size_t>(options.top);
     std::vector<PairResult> top; // sorted, at most n_top
     struct FrontEntry {
-        std::vector<double> v;
+        ParetoPoint v;
         PairResult r;
     };
     std::vector<FrontEntry> front;
@@ -321,23 +322,23 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         return pair_before(x, y, inductors, diodes);
     };
     auto threshold = [&] { return top.size() < n_top ? INFINITY : top.back().tune.best.score; };
-    auto dominated_by_front = [&](const std::vector<double>& v) {
+    auto dominated_by_front = [&](const ParetoPoint& v) {
         for (const auto& f : front)
-            if (dominates(f.v, v)) return true;
+            if (dominates(f.v.values(), v.values())) return true;
         return false;
     };
     // The loss above which a pair with these other objectives is dominated: the least loss of the
     // front members no worse on every other axis (infinite when none is, or loss is no axis).
     const auto loss_axis = std::find(axes.begin(), axes.end(), design::Objective::loss);
-    auto loss_to_dominate = [&](const std::vector<double>& v) -> double {
+    auto loss_to_dominate = [&](const ParetoPoint& v) -> double {
         if (loss_axis == axes.end()) return INFINITY;
         const auto li = static_cast<std::size_t>(loss_axis - axes.begin());
         double least = INFINITY;
         for (const auto& f : front) {
             bool no_worse = true;
-            for (std::size_t axis = 0; axis < v.size() && no_worse; ++axis)
-                if (axis != li && f.v[axis] > v[axis]) no_worse = false;
-            if (no_worse) least = std::min(least, f.v[li]);
+            for (std::size_t axis = 0; axis < v.n && no_worse; ++axis)
+                if (axis != li && f.v.v[axis] > v.v[axis]) no_worse = false;
+            if (no_worse) least = std::min(least, f.v.v[li]);
         }
         return least;
     };
@@ -410,7 +411,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
             job.optimistic.loss = std::max(job.optimistic.loss, pair_optimistic(ctx, lb, db).loss);
             const bool can_top =
                 pair_score_bound(ctx, lb, db, scales) + job.cost_term <= threshold();
-            if (!can_top && dominated_by_front(pareto_vector(job.optimistic, axes))) {
+            if (!can_top && dominated_by_front(pareto_point(job.optimistic, axes))) {
                 job.skipped = true;
                 return;
             }
@@ -434,14 +435,14 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
                     auto o = job.optimistic;
                     // Splitting the stretches pays only where some loss would show the pair
                     // dominated.
-                    const double enough = loss_to_dominate(pareto_vector(o, axes));
+                    const double enough = loss_to_dominate(pareto_point(o, axes));
                     o.loss = std::max(
                         o.loss, std::isfinite(enough)
                                     ? pair_loss_within(ctx, l, *lprep[job.lk].model, lb,
                                                        *dprep[job.dk].model, db, scales,
                                                        cap - job.cost_term, corners_of(l), enough)
                                     : pair_loss_within(ctx, lb, db, scales, cap - job.cost_term));
-                    if (dominated_by_front(pareto_vector(o, axes))) {
+                    if (dominated_by_front(pareto_point(o, axes))) {
                         job.skipped = true;
                         return;
                     }
@@ -472,10 +473,17 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
     auto last_progress = elapsed();
     // Pareto-only pairs whose probe raised their loss bound go back to the queue (phase 2).
     std::vector<Job> requeue;
+    std::vector<std::size_t> order; // the batch's jobs in the order they start
     auto run_batch = [&] {
         // The front and the threshold are only read while the batch runs; they change in the
         // merge below, in batch order, so the outcome does not depend on the number of threads.
-        parallel_for(batch.size(), threads, [&](std::size_t k) { run_job(batch[k]); });
+        // Tuning takes ten to a hundred times longer than a probe: the jobs sure to tune start
+        // first, so the batch ends on short jobs and no thread waits long for the other.
+        order.resize(batch.size());
+        std::iota(order.begin(), order.end(), std::size_t{0});
+        std::stable_partition(order.begin(), order.end(),
+                              [&](std::size_t k) { return !batch[k].probe; });
+        parallel_for(order.size(), threads, [&](std::size_t k) { run_job(batch[order[k]]); });
         for (auto& job : batch) {
             counts.evaluations += static_cast<std::size_t>(job.probe_evaluations);
             if (job.probed_here) ++counts.pairs_probed;
@@ -520,9 +528,11 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
                 if (top.size() > n_top) top.pop_back();
             }
             // Pareto front.
-            auto v = pareto_vector(pr.tune.best.objectives, axes);
+            auto v = pareto_point(pr.tune.best.objectives, axes);
             if (!dominated_by_front(v)) {
-                std::erase_if(front, [&](const FrontEntry& f) { return dominates(v, f.v); });
+                std::erase_if(front, [&](const FrontEntry& f) {
+                    return dominates(v.values(), f.v.values());
+                });
                 front.push_back({std::move(v), pr});
             }
         }
@@ -591,8 +601,15 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         }
     };
     std::priority_queue<Entry, std::vector<Entry>, std::greater<Entry>> queue;
+    // A pair the front already dominates is pruned here rather than when popped: the front only
+    // grows stronger (what it loses, a newer member dominates), so it would be pruned then too.
     auto push_pair = [&](std::size_t row, std::size_t col) {
         const auto o = optimistic(lrows[row], dcols[col]);
+        if (dominated_by_front(pareto_point(o, axes))) {
+            ++counts.pairs_pruned;
+            ++done;
+            return;
+        }
         queue.push({o.loss, false, row, col, false});
     };
     std::vector<std::size_t> row_of(lprep.size(), 0);
@@ -624,7 +641,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
             const Entry e = queue.top();
             queue.pop();
             if (e.row) {
-                if (dominated_by_front(pareto_vector(row_vector(e.row_index), axes))) {
+                if (dominated_by_front(pareto_point(row_vector(e.row_index), axes))) {
                     const std::size_t n = dcols.size() - e.col;
                     counts.pairs_pruned += n;
                     done += n;
@@ -638,7 +655,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
                 job.probed = true;
                 job.optimistic.loss = std::max(job.optimistic.loss, e.key);
             }
-            if (dominated_by_front(pareto_vector(job.optimistic, axes))) {
+            if (dominated_by_front(pareto_point(job.optimistic, axes))) {
                 ++counts.pairs_pruned;
                 ++done;
                 continue;

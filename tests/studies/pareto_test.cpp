@@ -83,3 +83,21 @@ TEST(Pareto, DesignListIsUsedAndMarginIsMinimisedAsItsComplement) {
     EXPECT_TRUE(dominates(pareto_vector(a, axes), pareto_vector(b, axes)));
     EXPECT_FALSE(dominates(pareto_vector(b, axes), pareto_vector(a, axes)));
 }
+
+TEST(Pareto, InlinePointHoldsEveryObjectiveOnceAndRefusesMore) {
+    using coilsieve::design::Objective;
+    const std::vector<Objective> all{Objective::loss, Objective::size, Objective::ripple,
+                                     Objective::margin, Objective::cost};
+    coilsieve::optimisation::Objectives o;
+    o.loss = 1.5;
+    o.size = 2e-7;
+    o.ripple = 0.1;
+    o.margin = 0.3;
+    o.cost = 0.42;
+    const auto p = pareto_point(o, all);
+    EXPECT_EQ(std::vector<double>(p.values().begin(), p.values().end()),
+              (std::vector<double>{1.5, 2e-7, 0.1, 0.7, 0.42}));
+    auto six = all;
+    six.push_back(Objective::loss);
+    EXPECT_THROW(pareto_point(o, six), std::invalid_argument);
+}
