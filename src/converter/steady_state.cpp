@@ -294,6 +294,9 @@ struct Output2 {
 struct Mat2 {
     double m11, m12, m21, m22;
 };
+// Below ln(2)/2 the C library's cosh(x) is 1 + e²/(2(1 + e)) with e = expm1(x), and below 1 its
+// sinh(x) is (2e − e²/(e + 1))/2 (fdlibm, which glibc follows).
+constexpr double cosh_by_expm1 = 0.5 * std::numbers::ln2;
 Mat2 expm2(const Lin2& a, double t) {
     const double mu = 0.5 * (a.a11 + a.a22);
     const double det = a.a11 * a.a22 - a.a12 * a.a21;
@@ -301,8 +304,17 @@ Mat2 expm2(const Lin2& a, double t) {
     double c, sn;
     if (d2 > 0.0) {
         const double dl = std::sqrt(d2);
-        c = std::cosh(dl * t);
-        sn = dl * t > 1e-8 ? std::sinh(dl * t) / dl : t;
+        const double x = dl * t;
+        if (x > 1e-8 && x < cosh_by_expm1) {
+            // cosh and sinh from one expm1, as the C library forms each of them from its own
+            // (fdlibm's e_cosh.c and e_sinh.c): the same values for half the calls.
+            const double e = std::expm1(x);
+            c = 1.0 + e * e / (2.0 * (1.0 + e));
+            sn = 0.5 * (2.0 * e - e * e / (e + 1.0)) / dl;
+        } else {
+            c = std::cosh(x);
+            sn = x > 1e-8 ? std::sinh(x) / dl : t;
+        }
     } else if (d2 < 0.0) {
         const double dl = std::sqrt(-d2);
         c = std::cos(dl * t);
