@@ -686,6 +686,47 @@ optimisation::Objectives pair_optimistic(const ScreenContext& c, const InductorB
     return o;
 }
 
+std::optional<PairFloors> pair_floors_above(const ScreenContext& c, const parts::Inductor& l,
+                                            const parts::InductorModel& m, const InductorBound& b,
+                                            const parts::DiodeModel& diode, const DiodeBound& d,
+                                            const optimisation::Scales& s,
+                                            const std::vector<EnvelopeCorner>& corners,
+                                            double loss_enough, double score_enough) {
+    const double k = c.design->weights.loss / s.power;
+    PairFloors out;
+    if (!b.feasible) return out; // no setting meets the limits with any diode
+    auto loss_of = [&](const SettingStretch& st) {
+        return st.loss + diode_switching(st, d) + d.loss + c.loss_floor;
+    };
+    auto score_of = [&](const SettingStretch& st) {
+        return st.score + k * diode_switching(st, d) + d.score;
+    };
+    // The stretches in doubt, least loss first: the one most likely to stay below comes first.
+    std::vector<const SettingStretch*> doubt;
+    for (const auto& st : b.stretches) {
+        const double loss = loss_of(st), score = score_of(st);
+        if (loss <= loss_enough || score <= score_enough) {
+            doubt.push_back(&st);
+            continue;
+        }
+        out.loss = std::min(out.loss, loss);
+        out.score = std::min(out.score, score);
+    }
+    std::stable_sort(doubt.begin(), doubt.end(),
+                     [&](const auto* x, const auto* y) { return loss_of(*x) < loss_of(*y); });
+    if (doubt.empty()) return out;
+    const InductorBounder bounder(c, l, m, s, corners, &diode, &d);
+    for (const auto* st : doubt) {
+        const auto part = bounder.stretch(st->x1, st->x2);
+        if (!part) continue; // no setting there meets the limits with this diode
+        const double loss = loss_of(*part), score = score_of(*part);
+        if (loss <= loss_enough || score <= score_enough) return std::nullopt;
+        out.loss = std::min(out.loss, loss);
+        out.score = std::min(out.score, score);
+    }
+    return out;
+}
+
 double pair_loss_within(const ScreenContext& c, const InductorBound& l, const DiodeBound& d,
                         const optimisation::Scales& s, double score_cap) {
     const double k = c.design->weights.loss / s.power;

@@ -106,6 +106,23 @@ double pair_score_bound(const ScreenContext& c, const InductorBound& l, const Di
 optimisation::Objectives pair_optimistic(const ScreenContext& c, const InductorBound& l,
                                          const DiodeBound& d);
 
+// A pair's loss bound (as pair_optimistic's) and score bound (as pair_score_bound) with only the
+// stretches whose own values reach down to `loss_enough` or `score_enough` bounded again with the
+// pair's diode; the rest keep the inductor's values, which hold for every partner. None as soon
+// as a stretch stays at or below either: the pair may matter, and its full bound is needed. Lets a
+// caller discard a pair at a fraction of pair_inductor_bound's cost (`b` is the inductor's bound,
+// `corners` part_corners(c, l.tolerance)).
+struct PairFloors {
+    double loss = INFINITY;
+    double score = INFINITY;
+};
+std::optional<PairFloors> pair_floors_above(const ScreenContext& c, const parts::Inductor& l,
+                                            const parts::InductorModel& m, const InductorBound& b,
+                                            const parts::DiodeModel& diode, const DiodeBound& d,
+                                            const optimisation::Scales& s,
+                                            const std::vector<EnvelopeCorner>& corners,
+                                            double loss_enough, double score_enough);
+
 // A tighter loss bound once the pair's tuned score (without its cost term) is known to be at most
 // `score_cap` (e.g. the score of a pre-scan point the tuner also visits): the tuned setting lies
 // where the pair's score bound is below the cap, and the loss there is at least the result.

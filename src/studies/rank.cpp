@@ -397,6 +397,20 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         const auto& prepared = dprep[dprep_of[pr.diode]].prepared;
         const auto scorer = optimisation::make_scorer(l, di, w, scales);
         const auto& db = dprep[job.dk].bound;
+        if (!options.exhaustive) {
+            // Most pairs that can only matter for the Pareto set are shown dominated with the
+            // diode's bound on the few stretches the inductor's own bound leaves in doubt.
+            const double enough = loss_to_dominate(pareto_point(job.optimistic, axes));
+            const double top_score = threshold();
+            if (std::isfinite(enough) && job.r.bound > top_score)
+                if (const auto f = pair_floors_above(
+                        ctx, l, *lprep[job.lk].model, lprep[job.lk].bound, *dprep[job.dk].model, db,
+                        scales, corners_of(l), enough, top_score - job.cost_term))
+                    if (f->loss > enough && f->score + job.cost_term > top_score) {
+                        job.skipped = true;
+                        return;
+                    }
+        }
         // The inductor's bound with this diode's own forward drop: tighter, and it may show that
         // no setting can meet the limits with this pair.
         const InductorBound lb =

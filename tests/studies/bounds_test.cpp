@@ -22,9 +22,12 @@
 #include "studies/bounds.hpp"
 #include "studies/screen.hpp"
 
+#include <algorithm>
 #include <cmath>
 #include <gtest/gtest.h>
+#include <optional>
 #include <string>
+#include <vector>
 
 using namespace coilsieve;
 
@@ -161,6 +164,7 @@ TEST_P(Bounds, StretchBoundsHoldAtEveryFeasibleSetting) {
     const auto& k = starter();
     const auto& w = s.d.weights;
     std::size_t feasible_points = 0, pair_closed_points = 0, window_closed_points = 0;
+    std::size_t floor_points = 0;
     for (std::size_t i : sample(k.inductors, 150)) {
         const auto& l = k.inductors[i];
         const auto m = parts::make_model(l);
@@ -182,6 +186,53 @@ TEST_P(Bounds, StretchBoundsHoldAtEveryFeasibleSetting) {
             const auto pb = studies::pair_inductor_bound(s.ctx, l, m, lb, dm, db, s.scales);
             const double pb_score = studies::pair_score_bound(s.ctx, pb, db, s.scales) + cost;
             const double pb_loss = studies::pair_optimistic(s.ctx, pb, db).loss;
+            // Floors as the ranking takes them to discard a pair, with the stretch of least loss
+            // in doubt: bounds wherever they are given.
+            const auto floors = studies::pair_floors_above(s.ctx, l, m, lb, dm, db, s.scales,
+                                                           corners, loss_bound, -INFINITY);
+            {
+                // Nothing in doubt: the inductor's own bounds, exactly (none when it leaves no
+                // setting open).
+                const auto none = studies::pair_floors_above(s.ctx, l, m, lb, dm, db, s.scales,
+                                                             corners, -INFINITY, -INFINITY);
+                ASSERT_TRUE(none.has_value());
+                EXPECT_EQ(none->loss, lb.feasible ? loss_bound : INFINITY);
+                EXPECT_EQ(none->score + cost, lb.feasible ? pair_bound : INFINITY);
+                // Stretch by stretch, the pair's own bound where the inductor's leaves doubt and
+                // the inductor's elsewhere; no answer once a stretch in doubt stays there.
+                std::optional<studies::PairFloors> expected = studies::PairFloors{};
+                for (const auto& st :
+                     lb.feasible ? lb.stretches : std::vector<studies::SettingStretch>{}) {
+                    auto one = lb;
+                    one.stretches = {st};
+                    double loss = studies::pair_optimistic(s.ctx, one, db).loss;
+                    double score = studies::pair_score_bound(s.ctx, one, db, s.scales);
+                    if (loss <= loss_bound) {
+                        const auto same = std::find_if(
+                            pb.stretches.begin(), pb.stretches.end(),
+                            [&](const auto& q) { return q.x1 == st.x1 && q.x2 == st.x2; });
+                        if (same == pb.stretches.end()) continue; // closed with this diode
+                        one.stretches = {*same};
+                        loss = studies::pair_optimistic(s.ctx, one, db).loss;
+                        score = studies::pair_score_bound(s.ctx, one, db, s.scales);
+                        if (loss <= loss_bound) {
+                            expected.reset();
+                            break;
+                        }
+                    }
+                    expected->loss = std::min(expected->loss, loss);
+                    expected->score = std::min(expected->score, score);
+                }
+                ASSERT_EQ(floors.has_value(), expected.has_value()) << l.id << " with " << di.id;
+                if (floors) {
+                    EXPECT_EQ(floors->loss, expected->loss) << l.id << " with " << di.id;
+                    EXPECT_EQ(floors->score, expected->score) << l.id << " with " << di.id;
+                }
+                // Everything in doubt: no answer once a stretch stays open with this diode.
+                const auto all = studies::pair_floors_above(s.ctx, l, m, lb, dm, db, s.scales,
+                                                            corners, INFINITY, INFINITY);
+                EXPECT_EQ(all.has_value(), !pb.feasible) << l.id << " with " << di.id;
+            }
             for (double x : s.scan) {
                 const auto setting = optimisation::make_setting(s.range, s.base, x);
                 const auto p = scorer(setting, converter::evaluate_pair(s.d, l, di, setting));
@@ -216,6 +267,11 @@ TEST_P(Bounds, StretchBoundsHoldAtEveryFeasibleSetting) {
                                                     p.score - cost, corners),
                           p.objectives.loss)
                     << at;
+                if (floors) {
+                    ++floor_points;
+                    EXPECT_LE(floors->loss, p.objectives.loss) << at;
+                    EXPECT_LE(floors->score + cost, p.score) << at;
+                }
                 // The diode's own heating floor (its junction balance) holds by itself.
                 EXPECT_LE(db.loss, nominal_diode_heating(s.d, l, p.evaluation)) << at;
                 EXPECT_LE(lb.ripple, p.objectives.ripple + 1e-12) << at;
@@ -238,6 +294,7 @@ TEST_P(Bounds, StretchBoundsHoldAtEveryFeasibleSetting) {
         }
     }
     EXPECT_GT(feasible_points, 100u) << "too few feasible points to check the bounds";
+    EXPECT_GT(floor_points, 100u) << "too few points to check the floors";
     RecordProperty("pair_closed_points", static_cast<int>(pair_closed_points));
     RecordProperty("window_closed_points", static_cast<int>(window_closed_points));
 }
