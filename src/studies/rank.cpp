@@ -3,9 +3,9 @@
 #include "optimisation/objectives.hpp"
 #include "studies/bounds.hpp"
 #include "studies/pareto.hpp"
+#include "studies/workers.hpp"
 
 #include <algorithm>
-#include <atomic>
 #include <chrono>
 #include <cmath>
 #include <exception>
@@ -29,32 +29,6 @@ std::vector<std::size_t> find_part(const std::vector<Part>& v, const std::string
             out.push_back(i);
     }
     return out;
-}
-
-// Runs fn(i) for i in [0, n) on up to `threads` threads; the first exception is rethrown.
-template <class Fn> void parallel_for(std::size_t n, unsigned threads, Fn&& fn) {
-    if (n == 0) return;
-    const unsigned t = static_cast<unsigned>(std::min<std::size_t>(std::max(1u, threads), n));
-    if (t == 1) {
-        for (std::size_t i = 0; i < n; ++i) fn(i);
-        return;
-    }
-    std::atomic<std::size_t> next{0};
-    std::vector<std::exception_ptr> errors(t);
-    std::vector<std::thread> pool;
-    pool.reserve(t);
-    for (unsigned k = 0; k < t; ++k)
-        pool.emplace_back([&, k] {
-            try {
-                for (std::size_t i = next++; i < n; i = next++) fn(i);
-            } catch (...) {
-                errors[k] = std::current_exception();
-                next = n;
-            }
-        });
-    for (auto& th : pool) th.join();
-    for (auto& e : errors)
-        if (e) std::rethrow_exception(e);
 }
 
 // Pairs in ascending order of a separable bound a[i] + b[j], lazily (a k-way merge over rows).
@@ -138,6 +112,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         throw RankError("--top must be at least 1, got " + std::to_string(options.top));
     const unsigned threads =
         options.threads > 0 ? options.threads : std::max(1u, std::thread::hardware_concurrency());
+    Workers workers(threads);
 
     RankResult res;
     // The free setting.
@@ -224,7 +199,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
             std::lower_bound(tolerances.begin(), tolerances.end(), part.tolerance, tol_less);
         return corner_sets[static_cast<std::size_t>(at - tolerances.begin())];
     };
-    parallel_for(lprep.size(), threads, [&](std::size_t k) {
+    workers.run(lprep.size(), [&](std::size_t k) {
         const auto& part = inductors[res.inductors_used[k]];
         try {
             const auto& m = lprep[k].model.emplace(parts::make_model(part));
@@ -237,7 +212,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
             lprep[k].reasons.push_back({"model", "", 0, 0, e.what()});
         }
     });
-    parallel_for(dprep.size(), threads, [&](std::size_t k) {
+    workers.run(dprep.size(), [&](std::size_t k) {
         const auto& part = diodes[res.diodes_used[k]];
         try {
             const auto& m = dprep[k].model.emplace(parts::make_model(part));
@@ -497,7 +472,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         std::iota(order.begin(), order.end(), std::size_t{0});
         std::stable_partition(order.begin(), order.end(),
                               [&](std::size_t k) { return !batch[k].probe; });
-        parallel_for(order.size(), threads, [&](std::size_t k) { run_job(batch[order[k]]); });
+        workers.run(order.size(), [&](std::size_t k) { run_job(batch[order[k]]); });
         for (auto& job : batch) {
             counts.evaluations += static_cast<std::size_t>(job.probe_evaluations);
             if (job.probed_here) ++counts.pairs_probed;
