@@ -15,6 +15,7 @@ struct Setting {
     double band = 0.0;                 // A, hysteresis band peak-to-peak (hysteretic control)
     double frequency = 0.0;            // Hz (PWM)
     std::optional<double> capacitance; // F, output capacitor when tuned or given
+    friend bool operator==(const Setting&, const Setting&) = default;
 };
 
 // One operating corner: supply, ambient, load point and part tolerances.

@@ -4,6 +4,7 @@
 #include <cmath>
 #include <limits>
 #include <map>
+#include <utility>
 
 namespace coilsieve::optimisation {
 
@@ -244,8 +245,20 @@ TuneResult tune(const SettingRange& range, const converter::Setting& base,
         problem.lower = {0.0};
         problem.upper = {1.0};
         problem.constraint_count = cmap.size();
+        // COBYLA starts where the best point so far is: its value is known, not evaluated again
+        // (when the setting comes out bit for bit the same).
+        bool first = true;
         problem.evaluate = [&](std::span<const double> x) {
-            TunedPoint p = eval_at(from_unit(range, x[0]));
+            const double value = from_unit(range, x[0]);
+            if (std::exchange(first, false) && std::isfinite(result.best.score) &&
+                make_setting(range, base, value) == result.best.setting) {
+                PointValue v;
+                v.objective = result.best.score;
+                v.constraints = cmap.constraints(result.best.evaluation);
+                v.feasible = result.best.evaluation.feasible;
+                return v;
+            }
+            TunedPoint p = eval_at(value);
             PointValue v;
             v.objective = std::isfinite(p.score) ? p.score : 1e30;
             v.constraints = cmap.constraints(p.evaluation);

@@ -4,9 +4,11 @@
 #include "design/design_json.hpp"
 #include "optimisation/tune.hpp"
 
+#include <algorithm>
 #include <cmath>
 #include <gtest/gtest.h>
 #include <random>
+#include <vector>
 
 using namespace coilsieve;
 using namespace coilsieve::optimisation;
@@ -142,6 +144,27 @@ TEST(Tune, FixedSettingEvaluatesOnce) {
     EXPECT_EQ(t.evaluations, 1);
     EXPECT_FALSE(t.solver_ran);
     EXPECT_DOUBLE_EQ(t.best.setting.band, 0.3);
+}
+
+TEST(Tune, TheLocalSolveStartsFromTheBestPointWithoutEvaluatingItAgain) {
+    SyntheticPair pair;
+    std::vector<double> bands;
+    auto eval = [&](const converter::Setting& s) {
+        bands.push_back(s.band);
+        return pair(s);
+    };
+    SettingRange r{Variable::band, 0.05, 0.8, false};
+    const TuneResult t = tune(r, {}, eval, loss_scorer());
+    ASSERT_TRUE(t.solver_ran);
+    EXPECT_EQ(t.evaluations, static_cast<int>(bands.size()));
+    // The pre-scan's best point (the solve's start) is among the 8 and evaluated once only.
+    ASSERT_GT(bands.size(), 8u);
+    const auto best_scan =
+        std::min_element(bands.begin(), bands.begin() + 8, [&](double a, double b) {
+            return pair(converter::Setting{a, 0.0, {}}).loss_nominal <
+                   pair(converter::Setting{b, 0.0, {}}).loss_nominal;
+        });
+    EXPECT_EQ(std::count(bands.begin(), bands.end(), *best_scan), 1);
 }
 
 TEST(Tune, EvaluatorExceptionPropagates) {
