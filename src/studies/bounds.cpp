@@ -712,9 +712,9 @@ std::optional<PairFloors> pair_floors_above(const ScreenContext& c, const parts:
         out.loss = std::min(out.loss, loss);
         out.score = std::min(out.score, score);
     }
+    if (doubt.empty()) return out;
     std::stable_sort(doubt.begin(), doubt.end(),
                      [&](const auto* x, const auto* y) { return loss_of(*x) < loss_of(*y); });
-    if (doubt.empty()) return out;
     const InductorBounder bounder(c, l, m, s, corners, &diode, &d);
     for (const auto* st : doubt) {
         const auto part = bounder.stretch(st->x1, st->x2);
