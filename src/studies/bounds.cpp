@@ -632,16 +632,19 @@ DiodeBound diode_bound(const ScreenContext& c, const parts::Diode& diode,
     const double tj_bound = lim.tj_max ? std::min(m.tj_max, *lim.tj_max) : m.tj_max;
     double loss = 0.0, e_sw = 0.0, w_sum = 0.0;
     for (const auto& k : c.corners) {
-        if (k.vin > 0.0 && k.current > 0.0)
-            b.settling.push_back(
-                {operating_point(k), JunctionBalance(k, m, tj_bound).largest_settling_share()});
+        const bool driven = k.vin > 0.0 && k.current > 0.0;
+        std::optional<JunctionBalance> balance;
+        if (driven) {
+            balance.emplace(k, m, tj_bound);
+            b.settling.push_back({operating_point(k), balance->largest_settling_share()});
+        }
         if (!k.nominal) continue;
         const double w = std::max(0.0, k.weight);
         w_sum += w;
-        if (k.vin <= 0.0 || k.current <= 0.0) continue;
+        if (!driven) continue;
         // Conduction and leakage from below at the junction's balance (JunctionBalance); the mean
         // of v_f(i)·i over the off-interval is at least v_f(ī)·ī as v_f·i is convex in i.
-        b.nominal.emplace_back(k, m, tj_bound);
+        b.nominal.push_back(std::move(*balance));
         loss += w * b.nominal.back().least_heating(k.off_share);
         // Junction charge lost each cycle (the engine's diode switching term without recovery).
         e_sw += w * m.capacitive_energy(k.vin);
