@@ -178,6 +178,21 @@ public:
             auto vload_lb = [&](double i) { return k.v0 + k.r * std::max(i, load_lo); };
             auto vload_ub = [&](double i) { return k.v0 + k.r * std::min(i, load_hi); };
             const double von_ub = std::max(0.0, k.vin - vload_lb(0.0));
+            // Time per henry of an on-ramp from i1 to i2 and an off-ramp from i3 to i4, ∫di/|v|,
+            // with each ramp's voltage a line in the current: V_in − load − r_on·i on the way up,
+            // load + drop + r_off·i on the way down, where the load is the load's own line
+            // without a capacitor and the given voltage with one (converter::time_between on
+            // 1 H segments; infinite where a ramp cannot go on).
+            auto ramps_time = [&](double load_on, double r_on, double i1, double i2,
+                                  double load_off, double drop, double r_off, double i3,
+                                  double i4) {
+                const bool cap = p.capacitor;
+                const converter::Segment on{k.vin - (cap ? load_on : k.v0),
+                                            (cap ? 0.0 : k.r) + r_on, 1.0};
+                const converter::Segment off{-((cap ? load_off : k.v0) + drop),
+                                             (cap ? 0.0 : k.r) + r_off, 1.0};
+                return converter::time_between(on, i1, i2) + converter::time_between(off, i3, i4);
+            };
             double b1 = 0.0, b2 = 0.0;
             double peak_ub = std::max(0.0, peak_cap_);
             double l_lo = p.l_lo_cap;
@@ -242,20 +257,11 @@ public:
                 // ending at the peak ceiling on the way up (1/v_on rises with i), starting at the
                 // valley floor on the way down (1/v_off falls with i).
                 double t_ramps = g_lb > 0.0 ? di_ub / g_lb : INFINITY;
-                if (di_ub > 0.0) {
-                    const bool cap = p.capacitor;
-                    const double on_c = cap ? k.vin - vload_ub(peak_ub) : k.vin - k.v0;
-                    const double on_s = cap ? p.r_on_ub : k.r + p.r_on_ub;
-                    const double off_c = (cap ? vload_lb(valley_lb) : k.v0) + drop_valley;
-                    const double off_s = cap ? p.r_off_lb : k.r + p.r_off_lb;
-                    // Segments of 1 H: converter::time_between gives ∫di/v (infinite where a
-                    // ramp cannot go on).
-                    using converter::Segment, converter::time_between;
-                    t_ramps = std::min(
-                        t_ramps, time_between(Segment{on_c, on_s, 1.0}, peak_ub - di_ub, peak_ub) +
-                                     time_between(Segment{-off_c, off_s, 1.0}, valley_lb + di_ub,
-                                                  valley_lb));
-                }
+                if (di_ub > 0.0)
+                    t_ramps =
+                        std::min(t_ramps, ramps_time(vload_ub(peak_ub), p.r_on_ub, peak_ub - di_ub,
+                                                     peak_ub, vload_lb(valley_lb), drop_valley,
+                                                     p.r_off_lb, valley_lb + di_ub, valley_lb));
                 if (t_ramps > 0.0 && std::isfinite(t_ramps))
                     f_lb = 1.0 / (l_hi * t_ramps + (valley_min < 0.0 ? td : 0.0));
                 voff_least = voff_lb;
@@ -268,15 +274,9 @@ public:
                 // can have: starting at the valley floor on the way up (1/v_on rises with i),
                 // ending at the peak ceiling on the way down (1/v_off falls with i).
                 if (di_lb > 0.0) {
-                    const bool cap = p.capacitor;
-                    const double on_c = cap ? k.vin - vload_lb(valley_lb) : k.vin - k.v0;
-                    const double on_s = cap ? p.r_on_lb : k.r + p.r_on_lb;
-                    const double off_c = (cap ? vload_ub(peak_ub) : k.v0) + drop_peak;
-                    const double off_s = cap ? p.r_off_ub : k.r + p.r_off_ub;
-                    using converter::Segment, converter::time_between;
-                    const double t_least =
-                        time_between(Segment{on_c, on_s, 1.0}, valley_lb, valley_lb + di_lb) +
-                        time_between(Segment{-off_c, off_s, 1.0}, peak_ub, peak_ub - di_lb);
+                    const double t_least = ramps_time(
+                        vload_lb(valley_lb), p.r_on_lb, valley_lb, valley_lb + di_lb,
+                        vload_ub(peak_ub), drop_peak, p.r_off_ub, peak_ub, peak_ub - di_lb);
                     if (t_least > 0.0 && std::isfinite(t_least))
                         f_ub = std::min(f_ub, 1.0 / (l_lo * t_least));
                 }
