@@ -6,6 +6,8 @@
 #include <algorithm>
 #include <cctype>
 #include <cmath>
+#include <functional>
+#include <future>
 #include <nlohmann/json.hpp>
 #include <sstream>
 #include <unordered_map>
@@ -30,6 +32,13 @@ struct Cell {
     std::optional<double> number;
 };
 
+// A JSON number as text, the way a text field (and a message) shows it.
+std::string json_number(double x) {
+    std::ostringstream os;
+    os << x;
+    return os.str();
+}
+
 class Reader {
 public:
     Reader(std::string_view file, PartKind kind, std::string_view source, ImportResult& result)
@@ -47,6 +56,28 @@ public:
         problem(line, std::move(column), std::move(reason));
         result_.fatal = true;
     }
+
+    // Appends a later stretch of rows read by another Reader, as if this one had read them: the
+    // problem cap applies to the whole file in line order.
+    void absorb(ImportResult&& part, std::size_t part_left_out) {
+        result_.rows += part.rows;
+        for (ImportProblem& p : part.problems) {
+            if (result_.problems.size() < max_problems) result_.problems.push_back(std::move(p));
+            else ++left_out_;
+        }
+        left_out_ += part_left_out;
+        auto append = [](auto& to, auto& from) {
+            to.insert(to.end(), std::make_move_iterator(from.begin()),
+                      std::make_move_iterator(from.end()));
+        };
+        append(result_.inductors, part.inductors);
+        append(result_.diodes, part.diodes);
+        append(result_.part_lines, part.part_lines);
+        append(result_.rejected_lines, part.rejected_lines);
+    }
+    std::size_t left_out() const { return left_out_; }
+    // A reader of the same file for a stretch of its rows, writing into `part`.
+    Reader for_part(ImportResult& part) const { return Reader(file_, kind_, source_, part); }
 
     void finish() {
         if (left_out_ > 0) {
@@ -74,7 +105,8 @@ public:
         return ok;
     }
 
-    void row(int line, const std::vector<Cell>& cells) {
+    // `first_line_of_id`: the earlier line with the same id, if any (see DuplicateIds).
+    void row(int line, const std::vector<Cell>& cells, std::optional<int> first_line_of_id) {
         ++result_.rows;
         const std::size_t before = result_.problems.size() + left_out_;
         Record rec(table_.size());
@@ -88,9 +120,7 @@ public:
                     x = units::celsius(x);
                 }
                 if (f.type == FieldType::text) {
-                    std::ostringstream os;
-                    os << *c.number;
-                    v = os.str();
+                    v = json_number(*c.number);
                 } else {
                     v = x;
                 }
@@ -140,14 +170,10 @@ public:
                 problem(line, column_name(i, cells), "required value missing");
             }
         }
-        // Duplicate ids within one file.
-        if (auto id = std::get_if<std::string>(&rec[0])) {
-            auto [it, inserted] = ids_.emplace(*id, line);
-            if (!inserted) {
-                problem(line, column_name(0, cells),
-                        "duplicate id \"" + *id + "\" (also on line " + std::to_string(it->second) +
-                            ")");
-            }
+        if (first_line_of_id) {
+            problem(line, column_name(0, cells),
+                    "duplicate id \"" + std::get<std::string>(rec[0]) + "\" (also on line " +
+                        std::to_string(*first_line_of_id) + ")");
         }
         if (result_.problems.size() + left_out_ == before) {
             std::vector<std::string> assumed;
@@ -172,11 +198,6 @@ public:
     std::span<const Field> table() const { return table_; }
 
 private:
-    static std::string json_number(double x) {
-        std::ostringstream os;
-        os << x;
-        return os.str();
-    }
     // The header as written for a field, or the canonical name if the file has no such column.
     std::string column_name(std::size_t field, const std::vector<Cell>& cells) const {
         for (const Cell& c : cells) {
@@ -190,8 +211,35 @@ private:
     std::string_view source_;
     ImportResult& result_;
     std::span<const Field> table_;
-    std::unordered_map<std::string, int> ids_;
     std::size_t left_out_ = 0;
+};
+
+// Duplicate ids within one file, found in one pass over the rows in line order so that the rows
+// themselves can then be read in any order. The key is the id as the row's record will hold it.
+class DuplicateIds {
+public:
+    explicit DuplicateIds(std::size_t rows) { first_line_.reserve(rows); }
+    // The earlier line with the row's id, or nullopt (and the id is remembered at `line`).
+    std::optional<int> check(std::span<const Field> table, const std::vector<Cell>& cells,
+                             int line) {
+        const auto id =
+            std::find_if(cells.begin(), cells.end(), [](const Cell& c) { return c.field == 0; });
+        if (id == cells.end()) return std::nullopt;
+        std::string key;
+        if (id->number) {
+            key = json_number(*id->number);
+        } else {
+            Value v = parse_cell(table[0], id->text, id->unit);               // text: never throws
+            if (!std::holds_alternative<std::string>(v)) return std::nullopt; // empty: missing
+            key = std::move(std::get<std::string>(v));
+        }
+        auto [it, inserted] = first_line_.emplace(std::move(key), line);
+        if (inserted) return std::nullopt;
+        return it->second;
+    }
+
+private:
+    std::unordered_map<std::string, int> first_line_;
 };
 
 bool ends_with_ci(std::string_view s, std::string_view suffix) {
@@ -205,8 +253,11 @@ bool ends_with_ci(std::string_view s, std::string_view suffix) {
     return true;
 }
 
+// Below this many rows per thread, a thread costs more than it saves.
+constexpr std::size_t rows_per_thread = 2000;
+
 void read_csv(std::string_view text, Reader& reader, PartKind kind, const HeaderMapping& mapping,
-              ImportResult& result, std::string_view file) {
+              ImportResult& result, std::string_view file, unsigned threads) {
     CsvTable table;
     try {
         table = parse_csv(text, file, true);
@@ -250,24 +301,64 @@ void read_csv(std::string_view text, Reader& reader, PartKind kind, const Header
         matches.push_back(std::move(m));
     }
     if (!reader.check_required_columns(present, table.header_line) || !header_ok) return;
-    std::vector<Cell> cells;
-    for (const CsvRecord& rec : table.rows) {
-        if (rec.fields.size() != table.header.size()) {
-            ++result.rows;
-            reader.problem(rec.line, "",
-                           "row has " + std::to_string(rec.fields.size()) +
-                               " fields but the header has " + std::to_string(table.header.size()) +
-                               "; quote fields that contain commas");
-            result.rejected_lines.push_back(rec.line);
-            continue;
-        }
+    const std::size_t n = table.rows.size();
+    auto cells_of = [&](const CsvRecord& rec, std::vector<Cell>& cells) {
         cells.clear();
         for (std::size_t c = 0; c < rec.fields.size(); ++c) {
             if (!matches[c]) continue;
             cells.push_back(
                 {matches[c]->field, table.header[c], matches[c]->unit, rec.fields[c], {}});
         }
-        reader.row(rec.line, cells);
+    };
+    const auto well_formed = [&](const CsvRecord& rec) {
+        return rec.fields.size() == table.header.size();
+    };
+    // Once duplicate ids are known, rows are independent: a long file is read in contiguous
+    // stretches at once and joined in line order, which gives what one pass would.
+    std::vector<std::optional<int>> duplicate_of(n);
+    {
+        DuplicateIds ids(n);
+        std::vector<Cell> cells;
+        for (std::size_t i = 0; i < n; ++i) {
+            if (!well_formed(table.rows[i])) continue;
+            cells_of(table.rows[i], cells);
+            duplicate_of[i] = ids.check(fields_table, cells, table.rows[i].line);
+        }
+    }
+    auto read_rows = [&](Reader& r, ImportResult& out, std::size_t begin, std::size_t end) {
+        std::vector<Cell> cells;
+        for (std::size_t i = begin; i < end; ++i) {
+            const CsvRecord& rec = table.rows[i];
+            if (!well_formed(rec)) {
+                ++out.rows;
+                r.problem(rec.line, "",
+                          "row has " + std::to_string(rec.fields.size()) +
+                              " fields but the header has " + std::to_string(table.header.size()) +
+                              "; quote fields that contain commas");
+                out.rejected_lines.push_back(rec.line);
+                continue;
+            }
+            cells_of(rec, cells);
+            r.row(rec.line, cells, duplicate_of[i]);
+        }
+    };
+    const std::size_t stretches =
+        std::clamp<std::size_t>(std::min<std::size_t>(threads, n / rows_per_thread), 1, 64);
+    const std::size_t first_end = n / stretches;
+    std::vector<ImportResult> later(stretches - 1);
+    std::vector<Reader> later_readers;
+    later_readers.reserve(later.size());
+    for (ImportResult& part : later) later_readers.push_back(reader.for_part(part));
+    std::vector<std::future<void>> pending;
+    for (std::size_t k = 1; k < stretches; ++k) {
+        pending.push_back(std::async(std::launch::async, read_rows, std::ref(later_readers[k - 1]),
+                                     std::ref(later[k - 1]), n * k / stretches,
+                                     n * (k + 1) / stretches));
+    }
+    read_rows(reader, result, 0, first_end);
+    for (std::size_t k = 1; k < stretches; ++k) {
+        pending[k - 1].get();
+        reader.absorb(std::move(later[k - 1]), later_readers[k - 1].left_out());
     }
 }
 
@@ -311,6 +402,7 @@ void read_json(std::string_view text, Reader& reader, PartKind kind, const Heade
     if (!reader.check_required_columns(present, 1)) return;
     int index = 0;
     std::vector<Cell> cells;
+    DuplicateIds ids(doc.size());
     for (const auto& element : doc) {
         const int line = ++index;
         if (!element.is_object()) {
@@ -355,14 +447,14 @@ void read_json(std::string_view text, Reader& reader, PartKind kind, const Heade
             result.rejected_lines.push_back(line);
             continue;
         }
-        reader.row(line, cells);
+        reader.row(line, cells, ids.check(table, cells, line));
     }
 }
 
 } // namespace
 
 ImportResult read_parts(std::string_view text, std::string_view file_name, PartKind kind,
-                        std::string_view source, const HeaderMapping& mapping) {
+                        std::string_view source, const HeaderMapping& mapping, unsigned threads) {
     ImportResult result;
     Reader reader(file_name, kind, source, result);
     for (const auto& [from, to] : mapping) {
@@ -377,7 +469,7 @@ ImportResult read_parts(std::string_view text, std::string_view file_name, PartK
     if (ends_with_ci(file_name, ".json")) {
         read_json(text, reader, kind, mapping, result);
     } else {
-        read_csv(text, reader, kind, mapping, result, file_name);
+        read_csv(text, reader, kind, mapping, result, file_name, std::max(threads, 1U));
     }
     reader.finish();
     return result;

@@ -44,8 +44,10 @@ inline constexpr std::size_t max_problems = 200;
 
 // Parse and validate a CSV (RFC 4180) or JSON (array of objects) text; `file_name` is used in
 // messages and to choose the format (".json" -> JSON, else CSV). Defaults are applied and recorded
-// in each part's `assumed`. `source` is set on every part.
+// in each part's `assumed`. `source` is set on every part. A long CSV's rows are read on up to
+// `threads` threads; the result is the same for any number.
 ImportResult read_parts(std::string_view text, std::string_view file_name, PartKind kind,
-                        std::string_view source, const HeaderMapping& mapping = {});
+                        std::string_view source, const HeaderMapping& mapping = {},
+                        unsigned threads = 2);
 
 } // namespace coilsieve::catalog

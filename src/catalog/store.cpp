@@ -11,6 +11,7 @@
 #include <cmath>
 #include <cstdlib>
 #include <ctime>
+#include <future>
 #include <map>
 #include <nlohmann/json.hpp>
 #include <set>
@@ -174,7 +175,7 @@ struct ExistingPart {
 
 template <class Part>
 ImportSummary do_import(sqlite::Database& db, const ImportRequest& req, ImportResult& result,
-                        const std::vector<Part>& incoming) {
+                        const std::vector<Part>& incoming, std::future<std::string>& sha) {
     ImportSummary sum;
     sum.rows = result.rows;
     sum.accepted = static_cast<int>(incoming.size());
@@ -196,11 +197,11 @@ ImportSummary do_import(sqlite::Database& db, const ImportRequest& req, ImportRe
             existing.emplace(p.id, std::move(p));
         }
     }
-    std::set<std::string> incoming_ids;
+    std::set<std::string> incoming_ids; // needed only to count the existing parts removed
     std::vector<ImportProblem> conflicts;
     for (std::size_t i = 0; i < incoming.size(); ++i) {
         const Part& p = incoming[i];
-        incoming_ids.insert(p.id);
+        if (!existing.empty()) incoming_ids.insert(p.id);
         auto it = existing.find(p.id);
         if (it == existing.end()) {
             ++sum.added;
@@ -230,7 +231,7 @@ ImportSummary do_import(sqlite::Database& db, const ImportRequest& req, ImportRe
     }
     if (req.dry_run) return sum;
 
-    const std::string sha = sha256_hex(req.text);
+    const std::string file_sha = sha.get();
     std::int64_t sid = 0;
     if (req.mode == ImportMode::replace || !existing_id) {
         if (existing_id) {
@@ -244,7 +245,7 @@ ImportSummary do_import(sqlite::Database& db, const ImportRequest& req, ImportRe
             .bind(3, req.source_kind)
             .bind(4, sqlite::utc_now())
             .bind(5, req.file_name)
-            .bind(6, sha)
+            .bind(6, file_sha)
             .bind(7, static_cast<std::int64_t>(incoming.size()));
         ins.run();
         sid = db.last_insert_rowid();
@@ -252,7 +253,9 @@ ImportSummary do_import(sqlite::Database& db, const ImportRequest& req, ImportRe
         sid = *existing_id;
         Statement up(db, "UPDATE source SET file_name = ?, sha256 = ?, row_count = row_count + ? "
                          "WHERE id = ?");
-        up.bind(1, req.file_name).bind(2, sha).bind(3, static_cast<std::int64_t>(incoming.size()));
+        up.bind(1, req.file_name)
+            .bind(2, file_sha)
+            .bind(3, static_cast<std::int64_t>(incoming.size()));
         up.bind(4, sid).run();
     }
     Statement ins(db, insert_sql(kind));
@@ -457,6 +460,9 @@ ImportSummary Store::import(const ImportRequest& req) {
     if (req.source_kind != "import" && req.source_kind != "starter") {
         throw CatalogError("source kind must be import or starter");
     }
+    // The file's hash is taken while it is read (a large file takes a tenth of a second).
+    std::future<std::string> sha =
+        std::async(std::launch::async, [&text = req.text] { return sha256_hex(text); });
     ImportResult result = read_parts(req.text, req.file_name, req.kind, req.source, req.mapping);
     const std::size_t accepted =
         req.kind == PartKind::inductor ? result.inductors.size() : result.diodes.size();
@@ -470,8 +476,8 @@ ImportSummary Store::import(const ImportRequest& req) {
         if (!result.fatal && accepted > 0) what += " (--skip-bad imports the good rows)";
         throw ImportFailed(what, std::move(result.problems));
     }
-    if (req.kind == PartKind::inductor) return do_import(db_, req, result, result.inductors);
-    return do_import(db_, req, result, result.diodes);
+    if (req.kind == PartKind::inductor) return do_import(db_, req, result, result.inductors, sha);
+    return do_import(db_, req, result, result.diodes, sha);
 }
 
 int Store::delete_source(std::string_view name, std::optional<PartKind> kind) {

@@ -2,6 +2,7 @@
 #include "catalog/import.hpp"
 #include "catalog/store.hpp"
 
+#include <algorithm>
 #include <cmath>
 #include <fstream>
 #include <gtest/gtest.h>
@@ -228,6 +229,60 @@ TEST(Import, ProblemsAreCapped) {
     EXPECT_TRUE(contains(r.problems.back().reason, "300 more problems"))
         << r.problems.back().reason;
     EXPECT_EQ(r.rejected_lines.size(), 500u);
+}
+
+// A long file is read in stretches on several threads; what comes out must not depend on how
+// many. The file has problems in every stretch (more than the cap in the first), rows of the
+// wrong width, and ids that repeat across stretches.
+TEST(Import, ALongFileReadsTheSameOnAnyNumberOfThreads) {
+    std::string text = "id,inductance,dcr_typ,isat,family\n";
+    const int rows = 9000;
+    for (int i = 0; i < rows; ++i) {
+        const bool repeated = i % 997 == 5; // R0, R1, R2 repeat far apart
+        std::string id(1, repeated ? 'R' : 'P');
+        id += std::to_string(repeated ? i % 3 : i);
+        const bool crowded = i < 2000 || i >= 7000; // over the cap in the first and last half
+        if (crowded && i % 8 == 0) text += id + ",-1,50m,2,\n"; // out of range
+        else if (i % 1500 == 7) text += id + ",10u,50m\n";      // too few fields
+        else if (i % 700 == 3) text += id + ",10u,50m,2,no-such-family\n";
+        else text += id + ",10u,50m," + std::to_string(1 + i % 5) + ",\n";
+    }
+    auto read = [&](unsigned threads) {
+        return read_parts(text, "long.csv", PartKind::inductor, "src", {}, threads);
+    };
+    const ImportResult one = read(1);
+    // The file is built to cross the cap and to hold each kind of problem (the cap and the
+    // rejected lines are the only trace of problems past it).
+    ASSERT_EQ(one.problems.size(), max_problems + 1);
+    // Row i is on line i + 2; R2 is first on row 5 and repeats on rows 2996, 5987 and 8978.
+    for (int i : {2996, 5987, 8978}) {
+        EXPECT_TRUE(std::ranges::binary_search(one.rejected_lines, i + 2)) << "row " << i;
+    }
+    EXPECT_FALSE(std::ranges::binary_search(one.rejected_lines, 5 + 2));
+    EXPECT_TRUE(contains(all_problems(one), "quote fields that contain commas"));
+    for (unsigned threads : {2U, 3U, 7U}) {
+        const ImportResult many = read(threads);
+        EXPECT_EQ(all_problems(many), all_problems(one)) << threads << " threads";
+        EXPECT_EQ(many.rows, one.rows);
+        EXPECT_EQ(many.rejected_lines, one.rejected_lines);
+        EXPECT_EQ(many.part_lines, one.part_lines);
+        ASSERT_EQ(many.inductors.size(), one.inductors.size());
+        for (std::size_t k = 0; k < one.inductors.size(); ++k) {
+            EXPECT_EQ(many.inductors[k].id, one.inductors[k].id);
+            EXPECT_EQ(many.inductors[k].isat, one.inductors[k].isat);
+            EXPECT_EQ(many.inductors[k].assumed, one.inductors[k].assumed);
+        }
+    }
+}
+
+TEST(Import, DuplicateIdsAreFoundInJsonToo) {
+    const auto r = read_parts(R"([{"id": 7, "inductance": "10u", "dcr_typ": "50m", "isat": 2},
+                                   {"id": "7", "inductance": "22u", "dcr_typ": "80m", "isat": 2}])",
+                              "in.json", PartKind::inductor, "src");
+    EXPECT_EQ(r.inductors.size(), 1u);
+    EXPECT_TRUE(contains(all_problems(r), "in.json:2: column \"id\": duplicate id \"7\" (also on "
+                                          "line 1)"))
+        << all_problems(r);
 }
 
 TEST(Import, DiodeDefaultsFromPackageAndTechnology) {
