@@ -49,7 +49,7 @@ struct CornerParts {
 struct Interval {
     double x1 = 0.0, x2 = 0.0;
     bool feasible = true;
-    std::string closed_by; // the first limit it cannot meet
+    std::string_view closed_by; // the first limit it cannot meet (a literal limit name)
     double score = 0.0;
     double loss = 0.0;       // nominal, inductor copper + core + switch transitions
     double ripple = 0.0;     // worst corner, fraction
@@ -535,7 +535,7 @@ private:
         b.size = l_.volume();
         const auto& r = c_.range;
         bool any = false;
-        std::map<std::string, int> closed;
+        std::map<std::string_view, int> closed;
         for (const auto& iv : ivs) {
             if (!iv.feasible) {
                 ++closed[iv.closed_by];
@@ -567,7 +567,8 @@ private:
                     most = n;
                     limit = name;
                 }
-                list += (list.empty() ? "" : ", ") + name;
+                if (!list.empty()) list += ", ";
+                list += name;
             }
             const bool band = hysteretic(c_);
             const auto dim = band ? u::Dimension::current : u::Dimension::frequency;
