@@ -349,11 +349,13 @@ void read_csv(std::string_view text, Reader& reader, PartKind kind, const Header
     std::vector<Reader> later_readers;
     later_readers.reserve(later.size());
     for (ImportResult& part : later) later_readers.push_back(reader.for_part(part));
+    // Deferred is allowed too: where no thread can be had, libstdc++ then reads the stretch in
+    // get(), on this thread.
     std::vector<std::future<void>> pending;
     for (std::size_t k = 1; k < stretches; ++k) {
-        pending.push_back(std::async(std::launch::async, read_rows, std::ref(later_readers[k - 1]),
-                                     std::ref(later[k - 1]), n * k / stretches,
-                                     n * (k + 1) / stretches));
+        pending.push_back(std::async(std::launch::async | std::launch::deferred, read_rows,
+                                     std::ref(later_readers[k - 1]), std::ref(later[k - 1]),
+                                     n * k / stretches, n * (k + 1) / stretches));
     }
     read_rows(reader, result, 0, first_end);
     for (std::size_t k = 1; k < stretches; ++k) {

@@ -460,9 +460,10 @@ ImportSummary Store::import(const ImportRequest& req) {
     if (req.source_kind != "import" && req.source_kind != "starter") {
         throw CatalogError("source kind must be import or starter");
     }
-    // The file's hash is taken while it is read (a large file takes a tenth of a second).
-    std::future<std::string> sha =
-        std::async(std::launch::async, [&text = req.text] { return sha256_hex(text); });
+    // The file's hash is taken while it is read (a large file takes a tenth of a second); where
+    // no thread can be had, libstdc++ defers it to get().
+    std::future<std::string> sha = std::async(std::launch::async | std::launch::deferred,
+                                              [&text = req.text] { return sha256_hex(text); });
     ImportResult result = read_parts(req.text, req.file_name, req.kind, req.source, req.mapping);
     const std::size_t accepted =
         req.kind == PartKind::inductor ? result.inductors.size() : result.diodes.size();
