@@ -31,7 +31,8 @@ const Catalog& starter() {
     return c;
 }
 
-// 20,000 x 3,000 parts made by perturbing starter parts (values within ±10 %, fixed seed).
+// 20,000 x 3,000 parts made by perturbing starter parts (values within ±10 %, from a fixed
+// generator state, so every run is the same).
 const Catalog& generated() {
     static const Catalog c = [] {
         const auto& s = starter();

@@ -69,13 +69,13 @@ std::vector<std::string> ids(const std::vector<parts::Inductor>& ps) {
     return out;
 }
 
-OpenOptions no_seed() { return OpenOptions{.load_starter = false}; }
+OpenOptions without_starter() { return OpenOptions{.load_starter = false}; }
 
 } // namespace
 
 TEST(Store, NewDatabaseHasSchemaVersionAndApplicationId) {
     TempDir dir;
-    Store s(dir / "sub" / "dir" / "c.db", no_seed()); // parent directories are created
+    Store s(dir / "sub" / "dir" / "c.db", without_starter()); // parent directories are created
     EXPECT_EQ(s.database().scalar_int("PRAGMA user_version"), latest_schema_version());
     EXPECT_EQ(s.database().scalar_int("PRAGMA application_id"), catalog_application_id);
     EXPECT_EQ(s.database().scalar_int("PRAGMA foreign_keys"), 1);
@@ -86,7 +86,7 @@ TEST(Store, NewDatabaseHasSchemaVersionAndApplicationId) {
 }
 
 TEST(Store, DatabaseColumnsAreTheFieldTable) {
-    Store s(":memory:", no_seed());
+    Store s(":memory:", without_starter());
     for (PartKind kind : {PartKind::inductor, PartKind::diode}) {
         std::vector<std::string> columns;
         sqlite::Statement st(s.database(), std::string("PRAGMA table_info(") +
@@ -127,7 +127,7 @@ TEST(Store, MigratesFromVersionOne) {
         ins.run();
         (void)r;
     }
-    Store s(path, no_seed());
+    Store s(path, without_starter());
     EXPECT_EQ(s.database().scalar_int("PRAGMA user_version"), 2);
     EXPECT_EQ(s.database().scalar_int("SELECT count(*) FROM sqlite_master WHERE name = 'study'"),
               1);
@@ -138,7 +138,7 @@ TEST(Store, MigratesFromVersionOne) {
 }
 
 TEST(Store, CheckConstraintsRejectImpossibleRows) {
-    Store s(":memory:", no_seed());
+    Store s(":memory:", without_starter());
     ASSERT_NO_THROW(s.import(request(PartKind::inductor, "s", three_inductors)));
     auto& db = s.database();
     const std::string base =
@@ -200,7 +200,7 @@ TEST(Store, CheckConstraintsRejectImpossibleRows) {
 
 TEST(Store, FailedImportLeavesTheDatabaseUnchanged) {
     TempDir dir;
-    Store s(dir / "c.db", no_seed());
+    Store s(dir / "c.db", without_starter());
     s.import(request(PartKind::inductor, "mine", three_inductors));
     s.import(request(PartKind::inductor, "other", "id,inductance,dcr_typ,isat\nO,1u,5m,9\n"));
     const std::string before = dump(s.database());
@@ -228,7 +228,7 @@ TEST(Store, FailedImportLeavesTheDatabaseUnchanged) {
 }
 
 TEST(Store, ImportFailedNamesFileLineColumn) {
-    Store s(":memory:", no_seed());
+    Store s(":memory:", without_starter());
     try {
         s.import(request(PartKind::inductor, "x",
                          "id,inductance,dcr_typ,isat\nA,1u,5m,9\nB,1u,5m,abc\n"));
@@ -244,11 +244,11 @@ TEST(Store, ImportFailedNamesFileLineColumn) {
 TEST(Store, ConcurrentImportsFromTwoConnections) {
     TempDir dir;
     const fs::path path = dir / "c.db";
-    { Store init(path, no_seed()); }
+    { Store init(path, without_starter()); }
     std::atomic<int> ok{0}, busy{0}, other{0};
     auto worker = [&](std::string source) {
         try {
-            Store s(path, no_seed());
+            Store s(path, without_starter());
             std::string text = "id,inductance,dcr_typ,isat\n";
             for (int i = 0; i < 2000; ++i) text += source + std::to_string(i) + ",10u,50m,2\n";
             for (int round = 0; round < 5; ++round)
@@ -266,7 +266,7 @@ TEST(Store, ConcurrentImportsFromTwoConnections) {
     b.join();
     EXPECT_EQ(other.load(), 0);
     EXPECT_EQ(ok.load() + busy.load(), 2);
-    Store s(path, no_seed());
+    Store s(path, without_starter());
     sqlite::Statement check(s.database(), "PRAGMA integrity_check");
     ASSERT_TRUE(check.step());
     EXPECT_EQ(check.column_text(0), "ok");
@@ -274,7 +274,7 @@ TEST(Store, ConcurrentImportsFromTwoConnections) {
 }
 
 TEST(Store, StringsThatLookLikeSqlAreStoredVerbatim) {
-    Store s(":memory:", no_seed());
+    Store s(":memory:", without_starter());
     const std::string evil_id = "x'); DROP TABLE inductor; --";
     const std::string evil_notes = "\"; DELETE FROM source; SELECT '";
     s.import(request(PartKind::inductor, "src'--",
@@ -295,7 +295,7 @@ TEST(Store, RefusesForeignDatabase) {
         db.exec("PRAGMA application_id = 1234; CREATE TABLE t(x)");
     }
     try {
-        Store s(dir / "foreign.db", no_seed());
+        Store s(dir / "foreign.db", without_starter());
         FAIL();
     } catch (const CatalogError& e) {
         EXPECT_NE(std::string(e.what()).find("not a coilsieve catalog"), std::string::npos)
@@ -305,20 +305,20 @@ TEST(Store, RefusesForeignDatabase) {
         sqlite::Database db(dir / "plain.db"); // no application_id, but someone's tables
         db.exec("CREATE TABLE t(x)");
     }
-    EXPECT_THROW(Store(dir / "plain.db", no_seed()), CatalogError);
+    EXPECT_THROW(Store(dir / "plain.db", without_starter()), CatalogError);
     std::ofstream(dir / "text.db") << "this is not a database, just some text that is long enough "
                                       "to fill the header of an SQLite file for sure............";
-    EXPECT_THROW(Store(dir / "text.db", no_seed()), CatalogError);
+    EXPECT_THROW(Store(dir / "text.db", without_starter()), CatalogError);
 }
 
 TEST(Store, RefusesNewerSchema) {
     TempDir dir;
     {
-        Store s(dir / "c.db", no_seed());
+        Store s(dir / "c.db", without_starter());
         s.database().exec("PRAGMA user_version = 99");
     }
     try {
-        Store s(dir / "c.db", no_seed());
+        Store s(dir / "c.db", without_starter());
         FAIL();
     } catch (const CatalogError& e) {
         EXPECT_NE(std::string(e.what()).find("version 99"), std::string::npos) << e.what();
@@ -326,7 +326,7 @@ TEST(Store, RefusesNewerSchema) {
 }
 
 TEST(Store, QueriesFilterSortAndLimit) {
-    Store s(":memory:", no_seed());
+    Store s(":memory:", without_starter());
     s.import(request(PartKind::inductor, "s", three_inductors));
     EXPECT_EQ(ids(s.query(InductorQuery{})), (std::vector<std::string>{"A", "B", "C"}));
     EXPECT_EQ(ids(s.query(InductorQuery{.inductance = {12e-6, 30e-6}})),
@@ -343,7 +343,7 @@ TEST(Store, QueriesFilterSortAndLimit) {
 }
 
 TEST(Store, DiodeQueries) {
-    Store s(":memory:", no_seed());
+    Store s(":memory:", without_starter());
     s.import(request(PartKind::diode, "d",
                      "id,technology,vrrm,if_avg,vf1,if1,rth_ja,length,width,height,package\n"
                      "S40,schottky,40,2,0.5,2,100,4mm,2.6mm,2mm,P1\n"
@@ -358,7 +358,7 @@ TEST(Store, DiodeQueries) {
 }
 
 TEST(Store, IdsMayRepeatAcrossSources) {
-    Store s(":memory:", no_seed());
+    Store s(":memory:", without_starter());
     s.import(request(PartKind::inductor, "one", three_inductors));
     s.import(request(PartKind::inductor, "two", "id,inductance,dcr_typ,isat\nA,47u,300m,1\n"));
     EXPECT_EQ(s.find_inductors("A").size(), 2u);
@@ -369,7 +369,7 @@ TEST(Store, IdsMayRepeatAcrossSources) {
 }
 
 TEST(Store, DeleteSourceTouchesNoOtherSource) {
-    Store s(":memory:", no_seed());
+    Store s(":memory:", without_starter());
     s.import(request(PartKind::inductor, "one", three_inductors));
     s.import(request(PartKind::inductor, "two", three_inductors));
     const std::string fp_two = s.fingerprint({"two"});
@@ -381,7 +381,7 @@ TEST(Store, DeleteSourceTouchesNoOtherSource) {
 }
 
 TEST(Store, DryRunCountsAndWritesNothing) {
-    Store s(":memory:", no_seed());
+    Store s(":memory:", without_starter());
     s.import(request(PartKind::inductor, "s", three_inductors));
     const std::string before = dump(s.database());
     auto req = request(PartKind::inductor, "s",
@@ -400,7 +400,7 @@ TEST(Store, DryRunCountsAndWritesNothing) {
 }
 
 TEST(Store, SkipBadWritesTheGoodRows) {
-    Store s(":memory:", no_seed());
+    Store s(":memory:", without_starter());
     auto req = request(PartKind::inductor, "s",
                        "id,inductance,dcr_typ,isat\nA,1u,5m,9\nB,-1u,5m,9\nC,2u,6m,8\n");
     req.skip_bad = true;
@@ -417,7 +417,7 @@ TEST(Store, SkipBadWritesTheGoodRows) {
 }
 
 TEST(Store, AppendAddsAndRefusesExistingIds) {
-    Store s(":memory:", no_seed());
+    Store s(":memory:", without_starter());
     s.import(request(PartKind::inductor, "s", three_inductors));
     auto more = request(PartKind::inductor, "s", "id,inductance,dcr_typ,isat\nD,1u,5m,9\n");
     more.mode = ImportMode::append;
@@ -437,7 +437,7 @@ TEST(Store, AppendAddsAndRefusesExistingIds) {
 }
 
 TEST(Store, SourceRecordsFileDigestAndCounts) {
-    Store s(":memory:", no_seed());
+    Store s(":memory:", without_starter());
     s.import(request(PartKind::inductor, "s", three_inductors));
     const auto src = s.sources().at(0);
     EXPECT_EQ(src.kind, "import");
@@ -454,12 +454,12 @@ TEST(Store, FingerprintIsStableAndSensitive) {
     TempDir dir;
     std::string fp1;
     {
-        Store s(dir / "c.db", no_seed());
+        Store s(dir / "c.db", without_starter());
         s.import(request(PartKind::inductor, "s", three_inductors));
         fp1 = s.fingerprint();
         EXPECT_EQ(fp1.size(), 64u);
     }
-    Store s(dir / "c.db", no_seed());
+    Store s(dir / "c.db", without_starter());
     EXPECT_EQ(s.fingerprint(), fp1);
     s.import(request(PartKind::inductor, "t", "id,inductance,dcr_typ,isat\nZ,1u,5m,9\n"));
     EXPECT_NE(s.fingerprint(), fp1);
@@ -467,7 +467,7 @@ TEST(Store, FingerprintIsStableAndSensitive) {
 }
 
 TEST(Store, ExportImportRoundTripIsUnchanged) {
-    Store s(":memory:", no_seed());
+    Store s(":memory:", without_starter());
     s.import(request(PartKind::inductor, "s", three_inductors));
     for (const std::string& text :
          {export_csv(s.all_inductors()), export_json(s.all_inductors())}) {

@@ -1,4 +1,4 @@
-// Property test: ~1000 random valid designs and parts (fixed seed), the analytical engine
+// Property test: ~1000 random valid designs and parts (fixed start state), the analytical engine
 // against the cycle simulator at the engine's temperatures. Bounds as against ngspice: average
 // load current 1 %, ripple and frequency 2 %, each comparable loss component above 1 % of the
 // total within 5 %; no NaN, nothing negative that cannot be; the simulator's energy balance
@@ -18,11 +18,11 @@
 namespace coilsieve::simulation {
 namespace {
 
-// Deterministic uniform numbers from a fixed-seed 64-bit Mersenne Twister (the standard fixes
-// its output sequence), mapped to [lo, hi) by hand so no library distribution is involved.
+// Deterministic uniform numbers from a 64-bit Mersenne Twister in a fixed start state (the standard
+// fixes its output sequence), mapped to [lo, hi) by hand so no library distribution is involved.
 class Draw {
 public:
-    explicit Draw(std::uint64_t seed) : g_(seed) {}
+    explicit Draw(std::uint64_t start) : g_(start) {}
     double uniform(double lo, double hi) {
         return lo + (hi - lo) * static_cast<double>(g_() >> 11) * 0x1.0p-53;
     }

@@ -11,6 +11,7 @@
 #include <fstream>
 #include <gtest/gtest.h>
 #include <sstream>
+#include <unistd.h>
 
 using namespace coilsieve;
 namespace fs = std::filesystem;
@@ -21,8 +22,7 @@ class StudyFlow : public ::testing::Test {
 protected:
     void SetUp() override {
         dir_ = fs::temp_directory_path() /
-               ("coilsieve-study-" +
-                std::to_string(::testing::UnitTest::GetInstance()->random_seed()) + "-" +
+               ("coilsieve-study-" + std::to_string(::getpid()) + "-" +
                 ::testing::UnitTest::GetInstance()->current_test_info()->name());
         fs::remove_all(dir_);
         fs::create_directories(dir_);
