@@ -45,11 +45,7 @@ public:
         : file_(file), kind_(kind), source_(source), result_(result), table_(fields(kind)) {}
 
     void problem(int line, std::string column, std::string reason) {
-        if (result_.problems.size() < max_problems) {
-            result_.problems.push_back({file_, line, std::move(column), std::move(reason)});
-        } else {
-            ++left_out_;
-        }
+        keep({file_, line, std::move(column), std::move(reason)});
     }
 
     void fatal(int line, std::string column, std::string reason) {
@@ -61,10 +57,7 @@ public:
     // problem cap applies to the whole file in line order.
     void absorb(ImportResult&& part, std::size_t part_left_out) {
         result_.rows += part.rows;
-        for (ImportProblem& p : part.problems) {
-            if (result_.problems.size() < max_problems) result_.problems.push_back(std::move(p));
-            else ++left_out_;
-        }
+        for (ImportProblem& p : part.problems) keep(std::move(p));
         left_out_ += part_left_out;
         auto append = [](auto& to, auto& from) {
             to.insert(to.end(), std::make_move_iterator(from.begin()),
@@ -198,6 +191,11 @@ public:
     std::span<const Field> table() const { return table_; }
 
 private:
+    // Lists a problem, or counts it once the list holds max_problems.
+    void keep(ImportProblem p) {
+        if (result_.problems.size() < max_problems) result_.problems.push_back(std::move(p));
+        else ++left_out_;
+    }
     // The header as written for a field, or the canonical name if the file has no such column.
     std::string column_name(std::size_t field, const std::vector<Cell>& cells) const {
         for (const Cell& c : cells) {
