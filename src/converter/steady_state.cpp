@@ -344,7 +344,44 @@ struct Wave2 {
     double i0 = 0.0, v0 = 0.0, i_peak = 0.0;
     double q_on = 0.0, q2_on = 0.0, q_off = 0.0, q2_off = 0.0;
     double load_min = 0.0, load_max = 0.0, load_q2 = 0.0, cap_q2 = 0.0; // ∫ over the period
+    double v_peak = 0.0; // capacitor voltage at the peak (the off interval's start)
 };
+// The load current's extremes inside one interval of a two-state cycle: where its slope g·u'
+// is zero, u(τ) = e^{Aτ}·u0 relative to the equilibrium (g the load's gradient over the state).
+// With N = A − μ·I, N² = δ²·I, e^{Aτ} = e^{μτ}·(cosh δτ·I + sinh δτ/δ·N), so the slope is zero
+// where cosh δτ·p + sinh δτ/δ·q = 0, p = g·A·u0, q = g·A·N·u0: once at most, τ = atanh(−δp/q)/δ,
+// for real δ; every π/|δ| from atan(−|δ|p/q)/|δ| for imaginary δ; −p/q for δ = 0.
+void interval_crests(const Lin2& a, double gi, double gv, const Output2& o, double ei, double ev,
+                     double ui, double uv, double t, double& lo, double& hi) {
+    auto slope = [&](double xi, double xv) {
+        return gi * (a.a11 * xi + a.a12 * xv) + gv * (a.a21 * xi + a.a22 * xv);
+    };
+    const double mu = 0.5 * (a.a11 + a.a22);
+    const double d2 = mu * mu - (a.a11 * a.a22 - a.a12 * a.a21);
+    const double p = slope(ui, uv);
+    const double q = slope((a.a11 - mu) * ui + a.a12 * uv, a.a21 * ui + (a.a22 - mu) * uv);
+    auto take = [&](double tau) {
+        if (!(tau > 0.0 && tau < t)) return;
+        const Mat2 e = expm2(a, tau);
+        const double il = o.i_load(ei + e.m11 * ui + e.m12 * uv, ev + e.m21 * ui + e.m22 * uv);
+        lo = std::min(lo, il);
+        hi = std::max(hi, il);
+    };
+    if (q == 0.0) return;
+    if (d2 > 0.0) {
+        const double dl = std::sqrt(d2);
+        const double z = -dl * p / q;
+        if (std::abs(z) < 1.0) take(std::atanh(z) / dl);
+    } else if (d2 < 0.0) {
+        const double dl = std::sqrt(-d2);
+        double x = std::atan(-dl * p / q);
+        if (x <= 0.0) x += std::numbers::pi;
+        for (int k = 0; k < 64 && x / dl < t; ++k, x += std::numbers::pi) take(x / dl);
+    } else {
+        take(-p / q);
+    }
+}
+
 Wave2 pwm_wave2(const Lin2& on, const Lin2& off, const Output2& o, double period, double d,
                 bool full) {
     Wave2 w;
@@ -367,11 +404,13 @@ Wave2 pwm_wave2(const Lin2& on, const Lin2& off, const Output2& o, double period
     const double xi1 = e1i + p1.m11 * (w.i0 - e1i) + p1.m12 * (w.v0 - e1v);
     const double xv1 = e1v + p1.m21 * (w.i0 - e1i) + p1.m22 * (w.v0 - e1v);
     w.i_peak = xi1;
+    w.v_peak = xv1;
     w.q_on = charge_i(on, e1i, w.i0, w.v0, xi1, xv1, t1);
     w.q_off = charge_i(off, e2i, xi1, xv1, w.i0, w.v0, t2);
     w.ok = std::isfinite(w.q_on) && std::isfinite(w.q_off) && w.i0 > 0.0;
     if (!full) return w; // the duty search needs only the charge
-    // Simpson over each interval on the exact solution for the squares and the load's extremes.
+    // Simpson over each interval on the exact solution for the squares and the load's extremes at
+    // the samples (load_crests adds the crests between them).
     constexpr int n = 16;
     w.load_min = std::numeric_limits<double>::infinity();
     w.load_max = -w.load_min;
@@ -404,6 +443,22 @@ Wave2 pwm_wave2(const Lin2& on, const Lin2& off, const Output2& o, double period
     run(off, e2i, e2v, xi1, xv1, t2, w.q2_off);
     w.ok = w.ok && std::isfinite(w.q2_on) && std::isfinite(w.q2_off);
     return w;
+}
+
+// The load's p-p of a full pwm_wave2 cycle at duty d, with its crests between the samples: the
+// samples alone can miss a crest by several per cent where the capacitor's time constant is
+// short beside a sample step.
+double load_crests(const Wave2& x, const Lin2& on, const Lin2& off, const Output2& o, double period,
+                   double d) {
+    const double gi = o.beta / o.r, gv = o.alpha / o.r; // ∂i_load/∂i_L, ∂i_load/∂v_C
+    double e1i, e1v, e2i, e2v;
+    equilibrium(on, e1i, e1v);
+    equilibrium(off, e2i, e2v);
+    double lo = x.load_min, hi = x.load_max;
+    interval_crests(on, gi, gv, o, e1i, e1v, x.i0 - e1i, x.v0 - e1v, d * period, lo, hi);
+    interval_crests(off, gi, gv, o, e2i, e2v, x.i_peak - e2i, x.v_peak - e2v, (1.0 - d) * period,
+                    lo, hi);
+    return hi - lo;
 }
 
 // Brent's method (R. P. Brent, Algorithms for Minimization without Derivatives, 1973, ch. 4):
@@ -729,6 +784,11 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
     bool two_state = false;
     double dq_used = 0.0; // A·s, relaxed charge correction of the PWM roll-off
     double load_pp2 = 0.0, load_q2_2 = 0.0, cap_q2_2 = 0.0;
+    // The last two-state cycle, whose load crests are found once the loop has converged.
+    Lin2 last_on{}, last_off{};
+    Output2 last_out{};
+    Wave2 last_wave{};
+    double last_duty = 0.0;
     double core_ripple = -1.0, core_f = 0.0, core_duty = 0.0; // inputs of the cached core loss
 
     for (int it = 0; it < max_iterations; ++it) {
@@ -867,6 +927,11 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
                 w.q_off = x.q_off + (1.0 - share_on) * dq_used;
                 w.q2_off = x.q2_off + pl.dq2_off;
                 load_pp2 = x.load_max - x.load_min;
+                last_on = a_on;
+                last_off = a_off;
+                last_out = o;
+                last_wave = x;
+                last_duty = d2;
                 load_q2_2 = x.load_q2 / period;
                 cap_q2_2 = x.cap_q2 / period;
                 return true;
@@ -1068,6 +1133,8 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
     res.il_ripple_pp = w.i_peak - w.i_valley;
     res.il_rms = std::sqrt(std::max(0.0, i_rms2));
     res.load_i_avg = i_avg; // the capacitor carries no DC
+    if (two_state)
+        load_pp2 = load_crests(last_wave, last_on, last_off, last_out, period, last_duty);
     res.load_ripple_pp = two_state ? load_pp2 : path.k_load * res.il_ripple_pp;
     res.id_avg = w.q_off * f;
     res.id_rms = std::sqrt(std::max(0.0, w.q2_off * f));
