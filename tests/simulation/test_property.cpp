@@ -188,8 +188,7 @@ TEST(SimulationProperty, EngineAgreesWithSimulatorOnRandomDesigns) {
         // load's p-p as the time-domain simulator does (the samples alone fell up to 3 % short).
         if (k.mode == design::ControlMode::pwm && k.has_capacitor() && !e.dcm && !s.steady.dcm) {
             ++load_ripple_compared;
-            EXPECT_NEAR(e.load_ripple_pp, s.steady.load_ripple_pp,
-                        0.015 * s.steady.load_ripple_pp)
+            EXPECT_NEAR(e.load_ripple_pp, s.steady.load_ripple_pp, 0.015 * s.steady.load_ripple_pp)
                 << x.name;
         }
     }
