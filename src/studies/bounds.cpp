@@ -22,7 +22,6 @@ constexpr int first_intervals = 12;       // initial split of the setting range
 constexpr int max_refinements = 40;       // interval halvings around the minimum
 constexpr int edge_refinements = 6;       // halvings of a stretch at the edge of the window
 constexpr double refine_tolerance = 2e-4; // stop when the bound can rise no more than this (score)
-constexpr double ramp_shape_slack = 0.9; // PWM peak above the mean: 90 % of ΔI/2 (common practice)
 // Halvings of a stretch when a probe's score caps where the tuned setting can lie: the score
 // varies across a stretch by more than the bound's own slack, so finer parts exclude more. Three
 // (eight parts) is a measured choice: with the tuned score as the cap, eight parts showed 82 % of

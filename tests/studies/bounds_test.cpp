@@ -372,6 +372,55 @@ TEST(BoundsPwm, SmallInductorIsClosedByLoadRipple) {
     EXPECT_EQ(found, 2) << "the starter catalog no longer has the parts this test names";
 }
 
+// The bound takes a PWM load's p-p in CCM with a capacitor as at least ramp_shape_slack of an ideal
+// triangle's with the same ΔI and duty through the same divider (converter::triangle_load_ripple,
+// itself checked against the divider's ODE). Checked here at every CCM corner of a sample of
+// starter pairs over the frequency range whose peak is within the derated Isat, with the
+// charger's capacitor and two others: a light one and a heavy one. Common practice; the margin is
+// measured, not derived.
+TEST(BoundsPwm, RampShapeAllowanceCoversTheEnginesLoadRipple) {
+    const auto& k = starter();
+    std::size_t corners = 0;
+    double least = INFINITY;
+    for (const auto& cap : {std::optional<design::OutputCapacitor>{},
+                            std::optional{design::OutputCapacitor{1e-6, 0.0}},
+                            std::optional{design::OutputCapacitor{100e-6, 0.005}}}) {
+        Case s("two-cell-charger.json");
+        if (cap) {
+            s.d.output_capacitor = cap;
+            s.base = converter::default_setting(s.d); // the setting carries the capacitance
+        }
+        ASSERT_TRUE(s.d.output_capacitor.has_value());
+        const auto& oc = *s.d.output_capacitor;
+        for (std::size_t i : sample(k.inductors, 60))
+            for (std::size_t j : sample(k.diodes, 8))
+                for (std::size_t q = 0; q < s.scan.size(); q += 4) {
+                    const auto& l = k.inductors[i];
+                    const auto e = converter::evaluate_pair(
+                        s.d, l, k.diodes[j],
+                        optimisation::make_setting(s.range, s.base, s.scan[q]));
+                    const auto points = converter::make_corners(s.d, l.tolerance);
+                    for (std::size_t c = 0; c < e.corners.size(); ++c) {
+                        const auto& r = e.corners[c];
+                        // The bounds hold for feasible pairs, whose peak stays within the
+                        // derated Isat: deep in saturation L(i) bends the ramps far more.
+                        if (r.status != converter::CornerStatus::ok || r.dcm ||
+                            r.il_peak > s.d.limits.isat_derating * l.isat)
+                            continue;
+                        const double tri = converter::triangle_load_ripple(
+                            points[c].point.r, oc.capacitance, oc.esr, r.f_sw, r.duty);
+                        const double ratio = r.load_ripple_pp / (tri * r.il_ripple_pp);
+                        ++corners;
+                        least = std::min(least, ratio);
+                        EXPECT_GE(ratio, studies::ramp_shape_slack)
+                            << l.id << " with " << k.diodes[j].id << " at " << r.name;
+                    }
+                }
+    }
+    EXPECT_GT(corners, 3000u);
+    RecordProperty("least_ratio", std::to_string(least));
+}
+
 // Under PWM the bounds take the average current as the target itself (screen.hpp,
 // pwm_current_share): the engine solves the duty for it. If the engine ever lets the average
 // drift, this fails before a bound silently becomes wrong.
