@@ -376,20 +376,26 @@ TEST(BoundsPwm, SmallInductorIsClosedByLoadRipple) {
 // triangle's with the same ΔI and duty through the same divider (converter::triangle_load_ripple,
 // itself checked against the divider's ODE). Checked here at every CCM corner of a sample of
 // starter pairs over the frequency range whose peak is within the derated Isat, with the
-// charger's capacitor and two others: a light one and a heavy one. Common practice; the margin is
-// measured, not derived.
+// charger's capacitor, a light one and a heavy one, and with the charger's own capacitor fed from
+// a supply only 1.2 V above the battery's top voltage, where little headroom curves the ramps
+// most. The least ratio on this sample is about 0.98; 4,000 random pairs and frequencies at that
+// supply went down to 0.93 (at 99 % duty). Common practice; the margin is measured, not derived.
 TEST(BoundsPwm, RampShapeAllowanceCoversTheEnginesLoadRipple) {
     const auto& k = starter();
     std::size_t corners = 0;
     double least = INFINITY;
-    for (const auto& cap : {std::optional<design::OutputCapacitor>{},
-                            std::optional{design::OutputCapacitor{1e-6, 0.0}},
-                            std::optional{design::OutputCapacitor{100e-6, 0.005}}}) {
+    struct Variant {
+        std::optional<design::OutputCapacitor> cap;
+        std::optional<double> supply;
+    };
+    for (const auto& v : {Variant{}, Variant{design::OutputCapacitor{1e-6, 0.0}, {}},
+                          Variant{design::OutputCapacitor{100e-6, 0.005}, {}}, Variant{{}, 9.6}}) {
         Case s("two-cell-charger.json");
-        if (cap) {
-            s.d.output_capacitor = cap;
+        if (v.cap) {
+            s.d.output_capacitor = v.cap;
             s.base = converter::default_setting(s.d); // the setting carries the capacitance
         }
+        if (v.supply) s.d.supply = {*v.supply, *v.supply, *v.supply};
         ASSERT_TRUE(s.d.output_capacitor.has_value());
         const auto& oc = *s.d.output_capacitor;
         for (std::size_t i : sample(k.inductors, 60))
