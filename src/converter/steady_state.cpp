@@ -780,11 +780,11 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
     int iterations = 0;
     // The last two steps of each temperature: still rising when the loop gives up?
     double dj_last = 0.0, dj_before = 0.0, dl_last = 0.0, dl_before = 0.0;
-    // PWM with a capacitor: the two-state solution's load ripple and mean squares (A², per s).
+    // PWM with a capacitor: the cycle is the two-state solution (load and capacitor together).
     bool two_state = false;
     double dq_used = 0.0; // A·s, relaxed charge correction of the PWM roll-off
-    double load_pp2 = 0.0, load_q2_2 = 0.0, cap_q2_2 = 0.0;
-    // The last two-state cycle, whose load crests are found once the loop has converged.
+    // The last two-state cycle: its load's mean squares and, once the loop has converged, its
+    // crests.
     Lin2 last_on{}, last_off{};
     Output2 last_out{};
     Wave2 last_wave{};
@@ -926,14 +926,11 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
                 w.q2_on = x.q2_on + pl.dq2_on;
                 w.q_off = x.q_off + (1.0 - share_on) * dq_used;
                 w.q2_off = x.q2_off + pl.dq2_off;
-                load_pp2 = x.load_max - x.load_min;
                 last_on = a_on;
                 last_off = a_off;
                 last_out = o;
                 last_wave = x;
                 last_duty = d2;
-                load_q2_2 = x.load_q2 / period;
-                cap_q2_2 = x.cap_q2 / period;
                 return true;
             };
             const bool had_two_state = two_state;
@@ -1133,9 +1130,9 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
     res.il_ripple_pp = w.i_peak - w.i_valley;
     res.il_rms = std::sqrt(std::max(0.0, i_rms2));
     res.load_i_avg = i_avg; // the capacitor carries no DC
-    if (two_state)
-        load_pp2 = load_crests(last_wave, last_on, last_off, last_out, period, last_duty);
-    res.load_ripple_pp = two_state ? load_pp2 : path.k_load * res.il_ripple_pp;
+    res.load_ripple_pp =
+        two_state ? load_crests(last_wave, last_on, last_off, last_out, period, last_duty)
+                  : path.k_load * res.il_ripple_pp;
     res.id_avg = w.q_off * f;
     res.id_rms = std::sqrt(std::max(0.0, w.q2_off * f));
     res.isw_rms = std::sqrt(std::max(0.0, w.q2_on * f));
@@ -1170,13 +1167,13 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
                          d.sw.gate_charge * d.sw.drive_voltage * f +
                          0.5 * d.sw.output_capacitance * vin * vin * f;
     p.sense = r_sense * i_rms2;
-    p.capacitor = two_state ? cap_esr * cap_q2_2 : cap_esr * path.k_cap2 * rip2;
+    p.capacitor = two_state ? cap_esr * (last_wave.cap_q2 / period) : cap_esr * path.k_cap2 * rip2;
     p.total = p.inductor_copper + p.inductor_core + p.diode_conduction + p.diode_switching +
               p.diode_leakage + p.switch_conduction + p.switch_switching + p.sense + p.capacitor;
 
     // Output power: the average of v_load·i_load = v0·I + r·I_load,rms².
     res.p_out = two_state
-                    ? v0 * i_avg + r_load * load_q2_2
+                    ? v0 * i_avg + r_load * (last_wave.load_q2 / period)
                     : v0 * i_avg + r_load * (i_avg * i_avg + path.k_load * path.k_load * rip2);
     // Supply power: the waveform's vin·I_sw,avg plus what the waveform does not carry.
     const double outside = (p.inductor_copper - dcr * i_rms2) + p.inductor_core +
