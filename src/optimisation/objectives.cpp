@@ -23,10 +23,14 @@ Objectives objectives_of(const converter::PairEvaluation& e, const parts::Induct
 }
 
 double score(const Objectives& o, const design::Weights& w, const Scales& s) {
-    double v = w.loss * o.loss / s.power + w.size * o.size / s.volume +
-               w.ripple * o.ripple / s.ripple + w.margin * (1.0 - o.margin);
-    if (o.cost && w.cost > 0.0) v += w.cost * *o.cost / s.cost;
-    return v;
+    return w.loss * o.loss / s.power + w.size * o.size / s.volume +
+           w.ripple * o.ripple / s.ripple + w.margin * (1.0 - o.margin) + cost_term(o.cost, w, s);
+}
+
+double cost_term(const std::optional<double>& cost, const design::Weights& w, const Scales& s) {
+    if (!(w.cost > 0.0)) return 0.0;
+    if (cost) return w.cost * *cost / s.cost;
+    return s.cost_unpriced ? w.cost * *s.cost_unpriced / s.cost : 0.0;
 }
 
 } // namespace coilsieve::optimisation

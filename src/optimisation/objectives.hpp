@@ -28,6 +28,11 @@ struct Scales {
     double ripple = 0.3;  // fraction: the ripple limit, or 30 % p-p when the design sets none
     double volume = 1e-6; // m^3: a fixed reference of 1 cm^3
     double cost = 1.0;    // one currency unit
+    // The cost an unpriced pair (a part without a price, or two currencies) is scored at: the
+    // dearest priced inductor plus the dearest priced diode of the catalog searched, so a missing
+    // price is never an advantage (the Pareto set counts it as the most expensive, too). None when
+    // the catalog prices no inductor or no diode: then no pair has a cost, and none is charged.
+    std::optional<double> cost_unpriced;
 };
 
 Scales make_scales(const design::Design& d);
@@ -37,7 +42,9 @@ Objectives objectives_of(const converter::PairEvaluation& e, const parts::Induct
                          const parts::Diode& diode);
 
 // Weighted sum of normalised objectives; lower is better. Margin enters as (1 - margin), the
-// peak current as a share of Isat. Cost enters only when the pair has one.
+// peak current as a share of Isat.
 double score(const Objectives& o, const design::Weights& w, const Scales& s);
+// The cost's share of the score: the pair's cost, or Scales::cost_unpriced when it has none.
+double cost_term(const std::optional<double>& cost, const design::Weights& w, const Scales& s);
 
 } // namespace coilsieve::optimisation

@@ -165,6 +165,14 @@ std::string rank_text(const RankReportInput& in) {
                    binding});
     }
     std::string out = t.render();
+    const bool unpriced_listed = std::any_of(r.top.begin(), r.top.end(), [](const auto& p) {
+        return !p.tune.best.objectives.cost.has_value();
+    });
+    if (in.design.weights.cost > 0.0 && r.scales.cost_unpriced && unpriced_listed)
+        out += "Price \"-\": a part has no price (or the two are in different currencies); such a "
+               "pair is scored as if it cost " +
+               price(r.scales.cost_unpriced) +
+               ", the dearest priced inductor and diode together.\n";
     out += rank_footer(r);
     if (!in.study_name.empty()) out += "Saved as study " + in.study_name + ".\n";
     out += cautions(in.design);

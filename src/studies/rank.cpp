@@ -132,6 +132,15 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
             optimisation::fixed_range(optimisation::Variable::frequency, *options.frequency);
     }
     res.scales = optimisation::make_scales(d);
+    {
+        // Over the whole catalog given, locks aside: a locked rerun scores a pair as before.
+        std::optional<double> dearest_l, dearest_d;
+        for (const auto& l : inductors)
+            if (l.price) dearest_l = std::max(dearest_l.value_or(0.0), *l.price);
+        for (const auto& di : diodes)
+            if (di.price) dearest_d = std::max(dearest_d.value_or(0.0), *di.price);
+        if (dearest_l && dearest_d) res.scales.cost_unpriced = *dearest_l + *dearest_d;
+    }
     const auto axes = pareto_objectives(d);
     res.pareto_axes = pareto_axes(axes);
 
@@ -539,7 +548,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         job.r.diode = res.diodes_used[job.dk];
         job.optimistic = optimistic(job.lk, job.dk);
         const auto& opt = job.optimistic;
-        job.cost_term = opt.cost && w.cost > 0.0 ? w.cost * *opt.cost / sc.cost : 0.0;
+        job.cost_term = optimisation::cost_term(opt.cost, w, sc);
         job.r.bound =
             pair_score_bound(ctx, lprep[job.lk].bound, dprep[job.dk].bound, sc) + job.cost_term;
         return job;

@@ -156,3 +156,52 @@ TEST(Rank, SameAnswerWithOneAndTwoThreadsAndExhaustive) {
         EXPECT_EQ(ra.top[k].tune.best.score, rb.top[k].tune.best.score);
     }
 }
+
+// A missing price must never be an advantage: the Pareto set counts an unpriced pair as the most
+// expensive, and the score charges it the dearest priced inductor and diode of the catalog.
+TEST(Rank, AnUnpricedPairIsScoredAsTheDearestNotAsFree) {
+    auto d = fixtures::lamp();
+    d.weights = {1.0, 0.0, 0.0, 0.0, 1.0}; // loss and cost
+    auto ls = fixtures::inductors();
+    for (auto& l : ls) {
+        l.price = 0.5;
+        l.currency = "USD";
+    }
+    auto priced = fixtures::schottky("D-PRICED", 40.0, 2.0);
+    priced.price = 0.001;
+    priced.currency = "USD";
+    auto dear = fixtures::schottky("D-DEAR", 40.0, 2.0);
+    dear.price = 3.0;
+    dear.currency = "USD";
+    dear.rth_ja = 1000.0; // too hot to be feasible: its price still sets the charge
+    const auto unpriced = fixtures::schottky("D-UNPRICED", 40.0, 2.0); // same part, no price
+    const std::vector<parts::Diode> ds{unpriced, priced, dear};
+    const auto r = rank_pairs(d, ls, ds, {}, default_evaluator());
+    ASSERT_TRUE(r.scales.cost_unpriced.has_value());
+    EXPECT_DOUBLE_EQ(*r.scales.cost_unpriced, 0.5 + 3.0);
+    const PairResult* with_price = nullptr;
+    const PairResult* without = nullptr;
+    for (const auto& p : r.top) {
+        if (ls[p.inductor].id != "L-BIG") continue;
+        if (ds[p.diode].id == "D-PRICED") with_price = &p;
+        if (ds[p.diode].id == "D-UNPRICED") without = &p;
+    }
+    ASSERT_NE(with_price, nullptr);
+    ASSERT_NE(without, nullptr);
+    // The same electrical pair: the same tuned loss, and a score higher by the charge.
+    EXPECT_DOUBLE_EQ(without->tune.best.objectives.loss, with_price->tune.best.objectives.loss);
+    EXPECT_NEAR(without->tune.best.score - with_price->tune.best.score, (3.5 - 0.501) / 1.0,
+                1e-12);
+    EXPECT_LT(with_price->rank, without->rank);
+    EXPECT_TRUE(with_price->pareto);
+    EXPECT_FALSE(without->pareto);
+}
+
+TEST(Rank, NoPriceAnywhereChargesNoPair) {
+    auto d = fixtures::lamp();
+    d.weights = {1.0, 0.0, 0.0, 0.0, 1.0};
+    const auto r = run(d); // the hand-made catalog prices nothing
+    EXPECT_FALSE(r.scales.cost_unpriced.has_value());
+    ASSERT_FALSE(r.top.empty());
+    EXPECT_DOUBLE_EQ(optimisation::cost_term(std::nullopt, d.weights, r.scales), 0.0);
+}
