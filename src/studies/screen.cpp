@@ -250,6 +250,14 @@ std::vector<ScreenReason> screen_inductor(const ScreenContext& c, const parts::I
                                           const parts::InductorModel& m) {
     std::vector<ScreenReason> out;
     const auto& lim = c.design->limits;
+    // A catalog row without a body size holds 0 (unknown): it would pass any height limit, add
+    // nothing to the size and have no core to lose power in, so it would win for want of data.
+    if (!(l.length > 0.0 && l.width > 0.0 && l.height > 0.0)) {
+        out.push_back({"body_size", "", 0.0, 0.0,
+                       "the catalog gives no body size (length, width, height), so its size, "
+                       "height and core loss are unknown; import it again with them"});
+        return out;
+    }
     if (lim.height_max && l.height > *lim.height_max)
         out.push_back({"height_max", "", l.height, *lim.height_max,
                        "height " + fmt(l.height, u::Dimension::length) + " is above the limit " +

@@ -205,3 +205,26 @@ TEST(Rank, NoPriceAnywhereChargesNoPair) {
     ASSERT_FALSE(r.top.empty());
     EXPECT_DOUBLE_EQ(optimisation::cost_term(std::nullopt, d.weights, r.scales), 0.0);
 }
+
+// A catalog row without a body size (0 = unknown) must not pass a height limit or win on size
+// and core loss for want of data: it is screened out with the reason named.
+TEST(Rank, AnInductorWithoutABodySizeIsScreenedOutNotFavoured) {
+    auto ls = fixtures::inductors();
+    auto no_size = ls[0]; // L-BIG's electrical data, dimensions unknown
+    no_size.id = "L-NO-SIZE";
+    no_size.length = no_size.width = no_size.height = 0.0;
+    no_size.core_volume = 0.0;
+    ls.push_back(no_size);
+    const auto r = rank_pairs(fixtures::lamp(), ls, fixtures::diodes(), {}, default_evaluator());
+    bool seen = false;
+    for (const auto& s : r.screened) {
+        if (!s.inductor || ls[s.index].id != "L-NO-SIZE") continue;
+        seen = true;
+        ASSERT_EQ(s.reasons.size(), 1u);
+        EXPECT_EQ(s.reasons.front().limit, "body_size");
+    }
+    EXPECT_TRUE(seen);
+    EXPECT_EQ(r.counts.screened_by_limit.at("body_size"), 1u);
+    for (const auto& p : r.top) EXPECT_NE(ls[p.inductor].id, "L-NO-SIZE");
+    for (const auto& p : r.pareto) EXPECT_NE(ls[p.inductor].id, "L-NO-SIZE");
+}
