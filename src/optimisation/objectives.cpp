@@ -23,8 +23,8 @@ Objectives objectives_of(const converter::PairEvaluation& e, const parts::Induct
 }
 
 double score(const Objectives& o, const design::Weights& w, const Scales& s) {
-    return w.loss * o.loss / s.power + w.size * o.size / s.volume +
-           w.ripple * o.ripple / s.ripple + w.margin * (1.0 - o.margin) + cost_term(o.cost, w, s);
+    return w.loss * o.loss / s.power + w.size * o.size / s.volume + w.ripple * o.ripple / s.ripple +
+           w.margin * (1.0 - o.margin) + cost_term(o.cost, w, s);
 }
 
 double cost_term(const std::optional<double>& cost, const design::Weights& w, const Scales& s) {

@@ -98,8 +98,20 @@ std::string no_feasible_text(const studies::RankResult& r) {
             os << "Screening had removed " << c.inductors_screened << " inductors and "
                << c.diodes_screened << " diodes (" << sorted_counts(c.screened_by_limit) << ").\n";
     }
-    os << "Relax the limits named above (--limit NAME<=VALUE), widen the control range, or "
-          "import parts with higher ratings.\n";
+    // Regulation is no limit a user can relax: it is the supply's headroom.
+    const auto most = [](const std::map<std::string, std::size_t>& m) {
+        return std::max_element(m.begin(), m.end(),
+                                [](const auto& a, const auto& b) { return a.second < b.second; });
+    };
+    const auto& by = c.pairs_considered == 0 ? c.screened_by_limit : c.infeasible_by_limit;
+    if (const auto top = most(by); top != by.end() && top->first == "regulation")
+        os << "Regulation is the most common reason: the supply cannot drive the load current "
+              "through "
+              "the load, the switch, the sense resistor and the winding. Raise supply.min, lower "
+              "the load's voltage or current, or use parts with less resistance.\n";
+    else
+        os << "Relax the limits named above (--limit NAME<=VALUE), widen the control range, or "
+              "import parts with higher ratings.\n";
     return os.str();
 }
 

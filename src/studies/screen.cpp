@@ -285,6 +285,25 @@ std::vector<ScreenReason> screen_inductor(const ScreenContext& c, const parts::I
     // Per corner, the inductance lies in l0·scale·[1 - drop, 1] (tolerance, then roll-off down to
     // L(Isat) at most, as a feasible peak stays below Isat).
     const auto corners = part_corners(c, l.tolerance);
+
+    // Regulation: with the switch on, the supply must push the target current through the load,
+    // the switch, the sense resistor and the winding. The engine's first pass has the winding at
+    // the ambient (its least DCR) and refuses a corner where this voltage is not positive
+    // (converter/steady_state.cpp), so such an inductor fails with every diode and setting.
+    for (const auto& k : corners) {
+        const double r_path = k.r + converter::switch_on_resistance(c.design->sw, k.ambient) +
+                              std::max(0.0, c.design->sense_resistor) + m.dcr(k.ambient, k.dcr_max);
+        const double needed = k.v0 + r_path * k.current;
+        if (k.vin - needed < -1e-9 * k.vin) {
+            out.push_back({"regulation", k.name, needed, k.vin,
+                           "the supply " + fmt(k.vin, u::Dimension::voltage) + " cannot drive " +
+                               fmt(k.current, u::Dimension::current) +
+                               " through the load, switch, sense resistor and this winding's " +
+                               fmt(m.dcr(k.ambient, k.dcr_max), u::Dimension::resistance) + " (" +
+                               fmt(needed, u::Dimension::voltage) + " needed)"});
+            break;
+        }
+    }
     auto l_lo = [&](const EnvelopeCorner& k) { return m.l0 * k.l_scale * (1.0 - l.sat_drop); };
     auto l_hi = [&](const EnvelopeCorner& k) { return m.l0 * k.l_scale; };
 

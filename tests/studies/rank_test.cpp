@@ -1,6 +1,8 @@
 // The ranking on a hand-made catalog whose answer is known by construction.
 #include "fixtures.hpp"
+#include "optimisation/tune.hpp"
 #include "studies/rank.hpp"
+#include "studies/screen.hpp"
 #include "studies/why.hpp"
 
 #include <gtest/gtest.h>
@@ -190,8 +192,7 @@ TEST(Rank, AnUnpricedPairIsScoredAsTheDearestNotAsFree) {
     ASSERT_NE(without, nullptr);
     // The same electrical pair: the same tuned loss, and a score higher by the charge.
     EXPECT_DOUBLE_EQ(without->tune.best.objectives.loss, with_price->tune.best.objectives.loss);
-    EXPECT_NEAR(without->tune.best.score - with_price->tune.best.score, (3.5 - 0.501) / 1.0,
-                1e-12);
+    EXPECT_NEAR(without->tune.best.score - with_price->tune.best.score, (3.5 - 0.501) / 1.0, 1e-12);
     EXPECT_LT(with_price->rank, without->rank);
     EXPECT_TRUE(with_price->pareto);
     EXPECT_FALSE(without->pareto);
@@ -227,4 +228,69 @@ TEST(Rank, AnInductorWithoutABodySizeIsScreenedOutNotFavoured) {
     EXPECT_EQ(r.counts.screened_by_limit.at("body_size"), 1u);
     for (const auto& p : r.top) EXPECT_NE(ls[p.inductor].id, "L-NO-SIZE");
     for (const auto& p : r.pareto) EXPECT_NE(ls[p.inductor].id, "L-NO-SIZE");
+}
+
+// The regulation screen claims a part can never hold the current: the engine, the reference here,
+// must agree at every setting of a scan.
+TEST(Rank, RegulationScreenAgreesWithTheEngine) {
+    const auto ls = fixtures::inductors();
+    const auto ds = fixtures::diodes();
+    auto regulation_reason = [](const std::vector<studies::ScreenReason>& v) {
+        return std::any_of(v.begin(), v.end(),
+                           [](const auto& r) { return r.limit == "regulation"; });
+    };
+    // L-SMALL's DCR is four times L-BIG's: find a minimum supply where only L-SMALL is refused.
+    std::optional<design::Design> found;
+    for (double vmin = 12.0; vmin < 16.0 && !found; vmin += 0.02) {
+        auto d = fixtures::lamp();
+        d.supply.min = vmin;
+        const auto ctx = studies::make_screen_context(d, optimisation::setting_range(d));
+        const bool big =
+            regulation_reason(studies::screen_inductor(ctx, ls[0], parts::make_model(ls[0])));
+        const bool small =
+            regulation_reason(studies::screen_inductor(ctx, ls[1], parts::make_model(ls[1])));
+        if (small && !big) found = d;
+    }
+    ASSERT_TRUE(found.has_value());
+    const auto& d = *found;
+    const auto range = optimisation::setting_range(d);
+    for (int k = 0; k <= 20; ++k) {
+        converter::Setting s;
+        s.band = range.lo + (range.hi - range.lo) * k / 20.0;
+        const auto e = converter::evaluate_pair(d, ls[1], ds[0], s);
+        EXPECT_TRUE(std::any_of(e.violations.begin(), e.violations.end(),
+                                [](const auto& v) { return v.limit == "regulation"; }))
+            << "band " << s.band;
+    }
+    const auto r = rank_pairs(d, ls, ds, {}, default_evaluator());
+    const auto small = std::find_if(r.screened.begin(), r.screened.end(), [&](const auto& x) {
+        return x.inductor && ls[x.index].id == "L-SMALL";
+    });
+    ASSERT_NE(small, r.screened.end());
+    EXPECT_TRUE(regulation_reason(small->reasons));
+}
+
+// The screen's threshold by construction: a sink of 10 V behind 0.5 Ω at 1 A, a 0.1 Ω switch with
+// no temperature coefficient, 0.2 Ω of sense resistor and L-BIG's winding at its DCR reference
+// temperature (0.08 Ω typical, 0.096 Ω maximum) need 10 + (0.5 + 0.1 + 0.2 + 0.096)·1 = 10.896 V
+// with the switch on (Kirchhoff's voltage law around the on-state loop).
+TEST(Rank, RegulationScreenThresholdIsTheOnStateLoopVoltage) {
+    auto d = fixtures::lamp();
+    d.load = loads::Sink{10.0, 0.5, 1.0};
+    d.sw.on_resistance = 0.1;
+    d.sw.on_resistance_tempco = 0.0;
+    d.sense_resistor = 0.2;
+    d.ambient.max = 293.15; // the winding's DCR reference temperature
+    d.ambient.min.reset();
+    d.supply = {10.0, 12.0, 14.0};
+    const auto l = fixtures::inductors()[0];
+    auto regulation_screened = [&](double vmin) {
+        d.supply.min = vmin;
+        const auto ctx = studies::make_screen_context(d, optimisation::setting_range(d));
+        const auto v = studies::screen_inductor(ctx, l, parts::make_model(l));
+        return std::any_of(v.begin(), v.end(),
+                           [](const auto& r) { return r.limit == "regulation"; });
+    };
+    EXPECT_TRUE(regulation_screened(10.8955));
+    EXPECT_FALSE(regulation_screened(10.8965));
 }
