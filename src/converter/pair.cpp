@@ -8,6 +8,7 @@
 #include <cmath>
 #include <string>
 #include <string_view>
+#include <utility>
 
 namespace coilsieve::converter {
 
@@ -16,6 +17,15 @@ namespace {
 using units::Dimension;
 
 std::string fmt(double v, Dimension d) { return units::format(v, d); }
+
+// A value and its limit with enough digits to tell them apart: a broken limit printed as "1.00 MHz
+// is above the maximum 1.00 MHz" would contradict itself.
+std::pair<std::string, std::string> apart(double value, double bound, Dimension d) {
+    for (int sig = 3;; ++sig) {
+        std::string a = units::format(value, d, {sig}), b = units::format(bound, d, {sig});
+        if (a != b || sig >= 8) return {std::move(a), std::move(b)};
+    }
+}
 
 std::string at(const std::string& corner) {
     return corner.empty() ? std::string() : " at corner \"" + corner + "\"";
@@ -148,41 +158,43 @@ PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
         if (lim.load_ripple) {
             const double ripple = r.load_ripple_pp / c.point.current;
             check.upper("load_ripple", cn, ripple, *lim.load_ripple, [&] {
-                return "load ripple " + fmt(ripple, Dimension::ratio) + " p-p (" +
-                       fmt(r.load_ripple_pp, Dimension::current) + ") exceeds the limit " +
-                       fmt(*lim.load_ripple, Dimension::ratio) + at(cn);
+                const auto [v, b] = apart(ripple, *lim.load_ripple, Dimension::ratio);
+                return "load ripple " + v + " p-p (" + fmt(r.load_ripple_pp, Dimension::current) +
+                       ") exceeds the limit " + b + at(cn);
             });
         }
         check.lower("f_sw_min", cn, r.f_sw, lim.f_sw_min, [&] {
-            return "switching frequency " + fmt(r.f_sw, Dimension::frequency) +
-                   " is below the minimum " + fmt(lim.f_sw_min, Dimension::frequency) + at(cn);
+            const auto [v, b] = apart(r.f_sw, lim.f_sw_min, Dimension::frequency);
+            return "switching frequency " + v + " is below the minimum " + b + at(cn);
         });
         if (lim.f_sw_max)
             check.upper("f_sw_max", cn, r.f_sw, *lim.f_sw_max, [&] {
-                return "switching frequency " + fmt(r.f_sw, Dimension::frequency) +
-                       " is above the maximum " + fmt(*lim.f_sw_max, Dimension::frequency) + at(cn);
+                const auto [v, b] = apart(r.f_sw, *lim.f_sw_max, Dimension::frequency);
+                return "switching frequency " + v + " is above the maximum " + b + at(cn);
             });
         check.upper("isat", cn, r.il_peak, isat_bound, [&] {
-            return "peak inductor current " + fmt(r.il_peak, Dimension::current) + " exceeds " +
-                   pct_isat + " of Isat (" + fmt(isat_bound, Dimension::current) + ")" + at(cn);
+            const auto [v, b] = apart(r.il_peak, isat_bound, Dimension::current);
+            return "peak inductor current " + v + " exceeds " + pct_isat + " of Isat (" + b + ")" +
+                   at(cn);
         });
         check.upper("inductor_rms", cn, r.il_rms, l.irms, [&] {
-            return "inductor RMS current " + fmt(r.il_rms, Dimension::current) +
-                   " exceeds its rating " + fmt(l.irms, Dimension::current) + at(cn);
+            const auto [v, b] = apart(r.il_rms, l.irms, Dimension::current);
+            return "inductor RMS current " + v + " exceeds its rating " + b + at(cn);
         });
         check.upper("t_inductor", cn, r.t_inductor, t_l_bound, [&] {
-            return "inductor hot spot " + fmt(r.t_inductor, Dimension::temperature) + " exceeds " +
-                   fmt(t_l_bound, Dimension::temperature) + at(cn);
+            const auto [v, b] = apart(r.t_inductor, t_l_bound, Dimension::temperature);
+            return "inductor hot spot " + v + " exceeds " + b + at(cn);
         });
         if (diode.if_avg > 0.0)
             check.upper("diode_current", cn, r.id_avg, id_bound, [&] {
-                return "diode average current " + fmt(r.id_avg, Dimension::current) + " exceeds " +
-                       fmt(lim.diode_current_derating, Dimension::ratio) + " of its rating (" +
-                       fmt(id_bound, Dimension::current) + ")" + at(cn);
+                const auto [v, b] = apart(r.id_avg, id_bound, Dimension::current);
+                return "diode average current " + v + " exceeds " +
+                       fmt(lim.diode_current_derating, Dimension::ratio) + " of its rating (" + b +
+                       ")" + at(cn);
             });
         check.upper("tj_max", cn, r.tj_diode, tj_bound, [&] {
-            return "diode junction " + fmt(r.tj_diode, Dimension::temperature) + " exceeds " +
-                   fmt(tj_bound, Dimension::temperature) + at(cn);
+            const auto [v, b] = apart(r.tj_diode, tj_bound, Dimension::temperature);
+            return "diode junction " + v + " exceeds " + b + at(cn);
         });
     }
 
@@ -209,9 +221,8 @@ PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
 
     if (lim.efficiency_min)
         check.lower("efficiency_min", nominal_name, e.efficiency_nominal, *lim.efficiency_min, [&] {
-            return "efficiency " + fmt(e.efficiency_nominal, Dimension::ratio) +
-                   " is below the minimum " + fmt(*lim.efficiency_min, Dimension::ratio) +
-                   at(nominal_name);
+            const auto [v, b] = apart(e.efficiency_nominal, *lim.efficiency_min, Dimension::ratio);
+            return "efficiency " + v + " is below the minimum " + b + at(nominal_name);
         });
     if (lim.height_max) {
         check.fixed_upper("height_max", {}, l.height, *lim.height_max, [&] {

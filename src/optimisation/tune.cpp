@@ -187,6 +187,21 @@ std::vector<TunedPoint> walk_hint(const SettingRange& range, const converter::Se
     return out;
 }
 
+PrintedValue printed_value(const SettingRange& range, const converter::Setting& base,
+                           const PairEvaluator& evaluate, double value) {
+    if (!(value > 0.0) || !std::isfinite(value)) return {value, 0};
+    for (int digits = 4; digits <= 6; ++digits) {
+        const double step = std::pow(10.0, std::floor(std::log10(value)) - (digits - 1));
+        const double nearest = std::round(value / step) * step;
+        const double other = nearest >= value ? nearest - step : nearest + step;
+        for (const double v : {nearest, other}) {
+            if (v < range.lo || v > range.hi) continue;
+            if (evaluate(make_setting(range, base, v)).feasible) return {v, digits};
+        }
+    }
+    return {value, 0};
+}
+
 TuneResult tune(const SettingRange& range, const converter::Setting& base,
                 const PairEvaluator& evaluate, const Scorer& scorer, const TuneOptions& options,
                 std::span<const double> hints, std::span<const TunedPoint> visited) {

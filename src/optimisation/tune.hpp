@@ -89,6 +89,17 @@ std::vector<TunedPoint> walk_hint(const SettingRange& range, const converter::Se
                                   const PairEvaluator& evaluate, const Scorer& scorer, double start,
                                   double toward);
 
+// A tuned value as a person can type it back. A tuned optimum usually sits on a limit, so the
+// value rounded for print can break it (a band shown as 46.9 mA where 46.94 mA was tuned puts the
+// frequency above its maximum). The value rounded to `digits` significant digits, nearest first
+// and then the other way, for digits = 4, 5, 6, is evaluated until one meets every limit.
+struct PrintedValue {
+    double value = 0.0;
+    int digits = 0; // significant digits that show `value` exactly; 0: none found, print in full
+};
+PrintedValue printed_value(const SettingRange& range, const converter::Setting& base,
+                           const PairEvaluator& evaluate, double value);
+
 // The check with the smallest margin in an evaluation (nullptr when there are none).
 const converter::LimitCheck* least_margin(const converter::PairEvaluation& e);
 

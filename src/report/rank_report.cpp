@@ -146,8 +146,12 @@ std::string rank_text(const RankReportInput& in) {
         const auto& b = p.tune.best;
         const auto fig = studies::figures_of(b.evaluation);
         std::string vf = d.forward.empty() ? "-" : f(d.forward.front().vf, u::Dimension::voltage);
-        std::string setting = band ? f(b.setting.band, u::Dimension::current)
-                                   : f(b.setting.frequency, u::Dimension::frequency);
+        const int digits = p.printed.digits > 0 ? p.printed.digits : 6;
+        const double shown = p.printed.digits > 0 ? p.printed.value
+                             : band               ? b.setting.band
+                                                  : b.setting.frequency;
+        std::string setting = band ? f(shown, u::Dimension::current, digits)
+                                   : f(shown, u::Dimension::frequency, digits);
         std::string fsw = f(fig.f_sw_min, u::Dimension::frequency, 3) + "–" +
                           f(fig.f_sw_max, u::Dimension::frequency, 3);
         std::string binding = p.tune.has_binding

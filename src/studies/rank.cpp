@@ -670,6 +670,18 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
 
     // Results.
     for (std::size_t k = 0; k < top.size(); ++k) top[k].rank = static_cast<int>(k + 1);
+    // Listed pairs get a printed setting that meets the limits as typed (a few evaluations each).
+    auto print_setting = [&](PairResult& p) {
+        const auto& tuned = p.tune.best.setting;
+        const double value =
+            res.range.variable == optimisation::Variable::band ? tuned.band : tuned.frequency;
+        p.printed = {value, 0};
+        if (!p.tune.feasible || !(res.range.hi > res.range.lo)) return;
+        const auto ev = evaluate(d, inductors[p.inductor], dprep[dprep_of[p.diode]].prepared);
+        p.printed = optimisation::printed_value(res.range, tuned, ev, value);
+    };
+    workers.run(top.size(), [&](std::size_t k) { print_setting(top[k]); });
+    workers.run(front.size(), [&](std::size_t k) { print_setting(front[k].r); });
     for (auto& f : front) {
         f.r.pareto = true;
         res.pareto.push_back(f.r);

@@ -70,6 +70,8 @@ struct PairResult {
     double bound = 0.0; // the score's lower bound used for pruning
     bool pareto = false;
     int rank = 0; // 1-based position by score among feasible pairs listed
+    // The tuned band or frequency as the table prints it (listed pairs only; digits 0: in full).
+    optimisation::PrintedValue printed;
 };
 
 struct ScreenedPart {

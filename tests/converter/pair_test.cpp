@@ -238,3 +238,34 @@ TEST(Pair, JsonCarriesTheDocumentedKeys) {
 
 } // namespace
 } // namespace coilsieve::converter
+
+namespace coilsieve::converter {
+
+// A limit broken by less than the three digits a report prints: the message must still show the
+// value above the limit, not "1.00 MHz is above the maximum 1.00 MHz".
+TEST(PairMessages, ValueAndLimitAreToldApart) {
+    auto d = led_design();
+    const auto l = inductor();
+    const auto di = diode();
+    Setting s;
+    s.band = 0.1;
+    const auto free = evaluate_pair(d, l, di, s);
+    double f_top = 0.0;
+    for (const auto& c : free.corners) f_top = std::max(f_top, c.f_sw);
+    ASSERT_GT(f_top, 0.0);
+    d.limits.f_sw_max = f_top * (1.0 - 2e-4);
+    const auto e = evaluate_pair(d, l, di, s);
+    const auto v = std::find_if(e.violations.begin(), e.violations.end(),
+                                [](const LimitCheck& c) { return c.limit == "f_sw_max"; });
+    ASSERT_NE(v, e.violations.end());
+    const std::string& m = v->message;
+    const auto above = m.find(" is above the maximum ");
+    ASSERT_NE(above, std::string::npos) << m;
+    const std::string value = m.substr(std::string("switching frequency ").size(),
+                                       above - std::string("switching frequency ").size());
+    const std::string rest = m.substr(above + std::string(" is above the maximum ").size());
+    const std::string limit = rest.substr(0, rest.find(" at corner"));
+    EXPECT_NE(value, limit) << m;
+}
+
+} // namespace coilsieve::converter

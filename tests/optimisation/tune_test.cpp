@@ -262,3 +262,39 @@ TEST(Tune, StarterPartExactlyAtTheHeightLimitTunesToTheScanOptimum) {
     EXPECT_LE(t.best.score, best * (1.0 + 2e-4)) << "band " << t.best.setting.band;
     for (const auto& c : t.best.evaluation.checks) EXPECT_GE(c.margin, 0.0) << c.limit;
 }
+
+// The printed setting: the fewest significant digits (from four) whose rounding, nearest first,
+// meets the limits. Feasibility windows around a tuned band of 46.9377 mA, by construction.
+TEST(PrintedValue, RoundsToTheFewestDigitsThatStillMeetTheLimits) {
+    SettingRange range{Variable::band, 0.01, 0.1, false};
+    const converter::Setting base{};
+    auto window = [](double lo, double hi) {
+        return PairEvaluator([lo, hi](const converter::Setting& s) {
+            converter::PairEvaluation e;
+            e.feasible = s.band >= lo && s.band <= hi;
+            return e;
+        });
+    };
+    const double tuned = 0.0469377;
+    // A frequency ceiling: larger bands pass; the nearest four-digit value 46.94 mA is larger.
+    auto p = printed_value(range, base, window(tuned, 1.0), tuned);
+    EXPECT_EQ(p.digits, 4);
+    EXPECT_NEAR(p.value, 0.04694, 1e-15);
+    // A ripple ceiling: smaller bands pass, so the other four-digit neighbour, 46.93 mA.
+    p = printed_value(range, base, window(0.0, tuned), tuned);
+    EXPECT_EQ(p.digits, 4);
+    EXPECT_NEAR(p.value, 0.04693, 1e-15);
+    // Both near: six digits are needed (46.9377 mA itself).
+    p = printed_value(range, base, window(tuned - 1e-9, tuned + 1e-9), tuned);
+    EXPECT_EQ(p.digits, 6);
+    EXPECT_NEAR(p.value, tuned, 1e-15);
+    // Nothing feasible near it: printed in full.
+    p = printed_value(range, base, window(1.0, 2.0), tuned);
+    EXPECT_EQ(p.digits, 0);
+    EXPECT_EQ(p.value, tuned);
+    // Never outside the range it was tuned in.
+    range.hi = 0.04693775;
+    p = printed_value(range, base, window(tuned - 1e-12, 1.0), tuned);
+    EXPECT_EQ(p.digits, 6);
+    EXPECT_NEAR(p.value, 0.0469377, 1e-15);
+}

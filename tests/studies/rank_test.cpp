@@ -294,3 +294,20 @@ TEST(Rank, RegulationScreenThresholdIsTheOnStateLoopVoltage) {
     EXPECT_TRUE(regulation_screened(10.8955));
     EXPECT_FALSE(regulation_screened(10.8965));
 }
+
+// What the table prints must pass `check` as typed: the engine, at the printed band, meets every
+// limit, and the printed value is the tuned one to its digits.
+TEST(Rank, PrintedSettingsMeetTheLimitsAsTyped) {
+    const auto d = fixtures::lamp();
+    const auto r = run(d);
+    ASSERT_FALSE(r.top.empty());
+    for (const auto& p : r.top) {
+        ASSERT_GE(p.printed.digits, 4);
+        const double tuned = p.tune.best.setting.band;
+        EXPECT_LE(std::abs(p.printed.value - tuned),
+                  std::pow(10.0, std::floor(std::log10(tuned)) - p.printed.digits + 1));
+        converter::Setting s = p.tune.best.setting;
+        s.band = p.printed.value;
+        EXPECT_TRUE(converter::evaluate_pair(d, L()[p.inductor], D()[p.diode], s).feasible);
+    }
+}
