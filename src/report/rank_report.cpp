@@ -145,7 +145,7 @@ std::string rank_text(const RankReportInput& in) {
         const auto& d = in.diodes[p.diode];
         const auto& b = p.tune.best;
         const auto fig = studies::figures_of(b.evaluation);
-        std::string vf = d.forward.empty() ? "-" : f(d.forward.front().vf, u::Dimension::voltage);
+        std::string vf = p.diode_vf > 0.0 ? f(p.diode_vf, u::Dimension::voltage) : "-";
         const int digits = p.printed.digits > 0 ? p.printed.digits : 6;
         const double shown = p.printed.digits > 0 ? p.printed.value
                              : band               ? b.setting.band

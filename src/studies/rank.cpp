@@ -4,6 +4,7 @@
 #include "studies/bounds.hpp"
 #include "studies/pareto.hpp"
 #include "studies/workers.hpp"
+#include "units/quantity.hpp"
 
 #include <algorithm>
 #include <chrono>
@@ -676,6 +677,8 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         const double value =
             res.range.variable == optimisation::Variable::band ? tuned.band : tuned.frequency;
         p.printed = {value, 0};
+        if (const auto& m = dprep[dprep_of[p.diode]].model; m && ctx.target > 0.0)
+            p.diode_vf = m->vf(ctx.target, units::celsius(25.0));
         if (!p.tune.feasible || !(res.range.hi > res.range.lo)) return;
         const auto ev = evaluate(d, inductors[p.inductor], dprep[dprep_of[p.diode]].prepared);
         p.printed = optimisation::printed_value(res.range, tuned, ev, value);

@@ -72,6 +72,9 @@ struct PairResult {
     int rank = 0; // 1-based position by score among feasible pairs listed
     // The tuned band or frequency as the table prints it (listed pairs only; digits 0: in full).
     optimisation::PrintedValue printed;
+    // The diode's forward drop at the design's target current and 25 °C, from its model (listed
+    // pairs only; 0 when not computed).
+    double diode_vf = 0.0;
 };
 
 struct ScreenedPart {

@@ -57,8 +57,10 @@ nlohmann::json pair_to_json(const PairResult& p, const RankResult& r,
                           {"width", l.width},
                           {"height", l.height},
                           {"price", l.price ? nlohmann::json(*l.price) : nlohmann::json(nullptr)}};
-    double vf = 0.0;
-    if (!d.forward.empty()) vf = d.forward.front().vf;
+    // At the design's target current and 25 °C (PairResult::diode_vf); the datasheet's first
+    // forward point when it was not computed.
+    double vf = p.diode_vf;
+    if (!(vf > 0.0) && !d.forward.empty()) vf = d.forward.front().vf;
     j["diode_part"] = {{"id", d.id},
                        {"source", d.source},
                        {"technology", std::string(parts::to_string(d.technology))},
