@@ -550,6 +550,14 @@ private:
             a.min = quantity(*x, "ambient.min", Dimension::temperature);
         if (a.max <= 0.0 || (a.min && *a.min <= 0.0))
             fail(p, "temperatures must be above absolute zero");
+        // The widest temperature grade of common passive parts, -55 °C to +150 °C (AEC-Q200
+        // grade 0, from memory): the part models (DCR(T), leakage, V_f(T)) are not meant beyond.
+        for (const auto& [t, name] :
+             {std::pair{std::optional<double>(a.max), "max"}, std::pair{a.min, "min"}})
+            if (t && (*t < units::celsius(-55.0) || *t > units::celsius(150.0)))
+                fail(p + "." + name, units::format(*t, Dimension::temperature) +
+                                         " is outside -55 °C to 150 °C, the widest temperature "
+                                         "grade of common parts; give an ambient in that range");
         if (a.min && *a.min > a.max)
             fail(p, "min must not be above max, got min " +
                         units::format(*a.min, Dimension::temperature) + ", max " +

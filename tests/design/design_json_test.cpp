@@ -301,6 +301,11 @@ TEST(DesignFile, MalformedFieldsAreNamed) {
         {[](json& j) { j["control"]["delay"] = "120nV"; }, "control.delay", "expected a time"},
         {[](json& j) { j["ambient"]["max"] = "hot"; }, "ambient.max", ""},
         {[](json& j) { j["ambient"]["min"] = "80C"; }, "ambient", "min must not be above max"},
+        // Beyond the widest common temperature grade (and, at -250 °C, below where copper's
+        // linear tempco would make the winding's resistance negative: IEC 60028, -234.5 °C).
+        {[](json& j) { j["ambient"]["max"] = "-250C"; }, "ambient.max", "-55 °C to 150 °C"},
+        {[](json& j) { j["ambient"]["max"] = "175C"; }, "ambient.max", "-55 °C to 150 °C"},
+        {[](json& j) { j["ambient"]["min"] = "-60C"; }, "ambient.min", "-55 °C to 150 °C"},
         {[](json& j) { j["limits"]["f_sw_min"] = "2MHz"; }, "limits.f_sw_min", "f_sw_max"},
         {[](json& j) { j["limits"]["isat_derating"] = 1.5; }, "limits.isat_derating", ""},
         {[](json& j) { j["limits"]["efficiency_min"] = "120%"; }, "limits.efficiency_min", ""},
