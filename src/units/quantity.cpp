@@ -6,7 +6,8 @@
 //   converted once by std::from_chars, so parse("4.7uH") is the double nearest to 4.7e-6.
 // - IEC 60062 codes: a prefix letter in place of the decimal point ("4u7", "2k2", "n47") carries
 //   the prefix and implies the dimension's SI unit; "R" in place of the point ("4R7", "R047") is a
-//   plain decimal point, except for a resistance, where it also means ohm. For resistances the
+//   plain decimal point, except for a resistance, where it also means ohm, and an inductance,
+//   where it means µH as on inductor markings ("4R7" = 4.7 µH). For resistances the
 //   capital "K" of IEC 60062 is kilo ("4K7", "10K"). A bare prefix ("10k", "4.7u") is a prefix
 //   on the SI unit, for the dimensions that take prefixes.
 // - A bare number is in SI units (temperature: °C; ratio: a fraction), or in the default unit
@@ -500,6 +501,8 @@ double parse_impl(std::string_view text, Dimension expected, const DimInfo& di,
             unit.exp10 = code_exp10; // "4u7": the prefix on the SI unit
         } else if (r_code && expected == Dimension::resistance) {
             // "4R7": IEC 60062 resistance code, ohms.
+        } else if (r_code && expected == Dimension::inductance) {
+            unit.exp10 = -6; // "4R7" on an inductor is 4.7 µH (marking practice, from memory)
         } else if (default_unit) {
             unit = *default_unit;
         } else if (expected == Dimension::temperature) {

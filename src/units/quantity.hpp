@@ -50,7 +50,8 @@ public:
 // A bare number is in SI base units (temperatures: °C, ratios: a fraction). Prefixes f p n u µ μ
 // m k M G are case-sensitive. IEC 60062 codes: a prefix letter as decimal point ("4u7", "2k2")
 // implies the field's SI unit; "R" as decimal point ("4R7", "R047") is a plain decimal point,
-// meaning ohm for a resistance (where the capital "K" of "4K7" is kilo). A bare prefix ("10k",
+// meaning ohm for a resistance (where the capital "K" of "4K7" is kilo) and µH for an inductance
+// ("4R7" = 4.7 µH, as inductors are marked). A bare prefix ("10k",
 // "4.7u") is a prefix on the SI unit. Throws ParseError (empty, two numbers, unknown unit or
 // prefix, unit of another dimension, NaN/inf/overflow, text after the unit, below 0 K).
 double parse(std::string_view text, Dimension expected);

@@ -202,8 +202,13 @@ TEST(Parse, DefaultUnitForBareNumbers) {
     EXPECT_EQ(parse("300K", Dimension::temperature, "C"), 300.0);
     EXPECT_EQ(parse("4u7", Dimension::inductance, "mH"), 4.7e-6); // the code's prefix is a unit
     EXPECT_EQ(parse("4R7", Dimension::resistance, "mOhm"), 4.7);  // IEC 60062: R means ohm
-    // For other dimensions R is only a decimal point: inductor markings "4R7" in a µH column.
+    // On an inductor "R" marks the point in microhenries (marking practice, from memory), whatever
+    // the column's unit: a bare "4R7" is 4.7 µH, not 4.7 H.
     EXPECT_EQ(parse("4R7", Dimension::inductance, "uH"), 4.7e-6);
+    EXPECT_EQ(parse("4R7", Dimension::inductance), 4.7e-6);
+    EXPECT_EQ(parse("R47", Dimension::inductance), 0.47e-6);
+    EXPECT_EQ(parse("4R7", Dimension::inductance, "mH"), 4.7e-6);
+    EXPECT_EQ(parse("4R7uH", Dimension::inductance), 4.7e-6);
 }
 
 TEST(Parse, BadDefaultUnitIsReported) {
