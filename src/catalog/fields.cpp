@@ -35,12 +35,14 @@ constexpr auto inductor_table = std::to_array<Field>({
         "part number, unique within its source"),
     txt("family", false, "family|construction|type", "shielded-drum-ferrite",
         "construction family (sets the defaults below)"),
+    // At least 1 nH: below that a board trace's own inductance is larger (common practice).
     num("inductance", Dimension::inductance, true, "inductance|l|l0|lnom|inductancenominal", "uH",
-        0, false, 1.0, "", "nominal inductance at zero bias"),
+        1e-9, true, 1.0, "", "nominal inductance at zero bias"),
     num("tolerance", Dimension::ratio, false, "tolerance|tol|ltol", "%", 0, false, 1.0, "20 %",
         "inductance tolerance (±)"),
+    // At least 1 µΩ, a tenth of the lowest DCR of large power chokes (common practice).
     num("dcr_typ", Dimension::resistance, true, "dcrtyp|dcr|rdc|dcrtypical|dcrnom|rdctyp", "mOhm",
-        0, false, 1000.0, "", "typical DC resistance"),
+        1e-6, true, 1000.0, "", "typical DC resistance"),
     num("dcr_max", Dimension::resistance, false, "dcrmax|rdcmax", "mOhm", 0, false, 1000.0,
         "= dcr_typ", "maximum DC resistance"),
     num("dcr_temperature", Dimension::temperature, false, "dcrtemperature|dcrtemp|tdcr", "C", t_lo,

@@ -399,3 +399,17 @@ TEST(Export, CsvRoundTripDiodes) {
     ASSERT_TRUE(again.problems.empty()) << all_problems(again);
     expect_same(first.diodes, again.diodes);
 }
+
+// Values no power part can have are refused at the door rather than giving contradictory figures
+// later (an inductance of 1e-300 H gave an RMS current below its average).
+TEST(Import, InductanceAndDcrBelowAnyRealPartAreRefused) {
+    auto r = inductors("id,inductance,dcr_typ,isat\nA,1e-300,50m,2\n");
+    EXPECT_TRUE(r.inductors.empty());
+    EXPECT_TRUE(contains(all_problems(r), "column \"inductance\"")) << all_problems(r);
+    EXPECT_TRUE(contains(all_problems(r), "1.00 nH")) << all_problems(r);
+    r = inductors("id,inductance,dcr_typ,isat\nA,10u,1e-12,2\n");
+    EXPECT_TRUE(r.inductors.empty());
+    EXPECT_TRUE(contains(all_problems(r), "column \"dcr_typ\"")) << all_problems(r);
+    r = inductors("id,inductance,dcr_typ,isat\nA,1n,1u,2\n"); // both at their floors
+    EXPECT_EQ(r.inductors.size(), 1u) << all_problems(r);
+}
