@@ -186,6 +186,18 @@ void apply_overrides(design::Design& d, const RankCliOptions& o) {
         throw UsageError("conflicting limits: the PWM frequency range starts at " +
                          fmt(d.control.frequency_min, u::Dimension::frequency) +
                          ", above the limit f_sw_max " + fmt(*l.f_sw_max, u::Dimension::frequency));
+    // The same rules as a design file, so that no option can make a design a file could not be.
+    std::string given;
+    for (const auto& [name, used] :
+         {std::pair{"--limit", !o.limits.empty()}, std::pair{"--weight", !o.weights.empty()},
+          std::pair{"--pareto", !o.pareto.empty()}})
+        if (used) given += std::string(given.empty() ? "" : ", ") + name;
+    try {
+        design::validate(d, given.empty() ? std::string("the design")
+                                          : "the design with " + given + " applied");
+    } catch (const design::DesignError& e) {
+        throw UsageError(e.what());
+    }
 }
 
 nlohmann::json to_json(const EffectiveOptions& o) {

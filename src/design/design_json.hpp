@@ -31,6 +31,10 @@ Design read_design(const nlohmann::json& j, std::string_view file_name);
 // Read a design file (JSON; // and /* */ comments allowed). Throws DesignError.
 Design load_design_file(const std::filesystem::path& path);
 
+// Checks a design changed in code (e.g. by command-line options) by the rules a design file
+// meets; `origin` stands for the file name in messages. Throws DesignError.
+void validate(const Design& d, std::string_view origin);
+
 // The effective design with every value written out in SI numbers (temperatures in °C), so that
 // read_design(to_json(d)) == d. Switch fields that took the default are left out, so they are
 // defaulted again (and reported as such) when read back.
