@@ -1,5 +1,6 @@
 #include "cli/check.hpp"
 
+#include "cli/rank.hpp"
 #include "converter/evaluate.hpp"
 #include "design/design_json.hpp"
 #include "report/check_report.hpp"
@@ -54,6 +55,7 @@ converter::Setting setting_from(const CheckOptions& o, const design::Design& d) 
         }
         if (!(s.band > 0.0))
             throw UsageError("--band \"" + o.band + "\": the band must be above zero");
+        check_fixed_band(s.band, d, "--band " + o.band);
     }
     if (!o.frequency.empty()) {
         if (hysteretic)

@@ -285,7 +285,35 @@ EffectiveOptions merge_options(EffectiveOptions base, const RankCliOptions& o,
         base.frequency = f;
         base.band.reset();
     }
+    // A stored study's setting is checked too: new limits may rule it out.
+    if (base.band)
+        check_fixed_band(*base.band, d,
+                         o.band.empty() ? "the study's fixed band" : "--band " + o.band);
+    if (base.frequency) {
+        const std::string given =
+            o.frequency.empty() ? "the study's fixed frequency" : "--frequency " + o.frequency;
+        const auto& l = d.limits;
+        const auto hz = [](double v) { return fmt(v, u::Dimension::frequency); };
+        const std::string range =
+            l.f_sw_max ? hz(l.f_sw_min) + " to " + hz(*l.f_sw_max) : "at least " + hz(l.f_sw_min);
+        if (*base.frequency < l.f_sw_min || (l.f_sw_max && *base.frequency > *l.f_sw_max))
+            throw UsageError(given + ": a fixed PWM frequency of " + hz(*base.frequency) +
+                             " is outside the design's limits f_sw_min..f_sw_max and can never "
+                             "meet them; give one " +
+                             (l.f_sw_max ? "from " : "") + range +
+                             ", or leave --frequency out to tune it");
+    }
     return base;
+}
+
+void check_fixed_band(double band, const design::Design& d, const std::string& given) {
+    const double target = loads::target_current(d.load);
+    if (!(band < 2.0 * target))
+        throw UsageError(given + ": a band of " + fmt(band, u::Dimension::current) +
+                         " p-p around " + fmt(target, u::Dimension::current) +
+                         " would take the valley below zero; keep it under 200 % of the target "
+                         "current (below " +
+                         fmt(2.0 * target, u::Dimension::current) + ")");
 }
 
 namespace {

@@ -52,6 +52,10 @@ EffectiveOptions effective_options_from_json(const nlohmann::json& j);
 EffectiveOptions merge_options(EffectiveOptions base, const RankCliOptions& o,
                                const design::Design& d);
 
+// A fixed hysteresis band (A) must keep the inductor current's valley above zero; `given` names
+// the input in the message. Throws UsageError.
+void check_fixed_band(double band, const design::Design& d, const std::string& given);
+
 // Known limit names for --limit, with their short forms.
 std::vector<std::string> limit_names();
 // "NAME<=VALUE" / "NAME>=VALUE" / "NAME=VALUE"; throws UsageError naming the input.

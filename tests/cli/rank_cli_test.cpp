@@ -67,3 +67,40 @@ TEST_F(RankCli, AllZeroWeightsAreRefusedAsInADesignFile) {
     // One positive weight is enough.
     EXPECT_EQ(run("rank " + example("reading-lamp") + zero + " --weight cost=1 --no-save").code, 0);
 }
+
+TEST_F(RankCli, AFixedSettingThatCanNeverWorkIsRefusedUpFront) {
+    // The lamp's target is 700 mA: a band of 200 % or more takes the valley to zero or below.
+    Outcome r = run("rank " + example("reading-lamp") + " --source hand --no-save --band 300%");
+    EXPECT_EQ(r.code, 2) << r.out;
+    EXPECT_TRUE(has(r.err, "--band 300%")) << r.err;
+    EXPECT_TRUE(has(r.err, "200 %")) << r.err;
+    r = run("rank " + example("reading-lamp") + " --source hand --no-save --band 1.4A");
+    EXPECT_EQ(r.code, 2) << r.out;
+    r = run("check " + example("reading-lamp") +
+            " --inductor GEN-L-MCP-6.6x6.4x3-100u --diode GEN-D-SCH-60V-2A-SOD-123F --band 300%");
+    EXPECT_EQ(r.code, 2) << r.out;
+    EXPECT_TRUE(has(r.err, "--band 300%")) << r.err;
+    EXPECT_NE(run("rank " + example("reading-lamp") + " --source hand --no-save --band 150%").code,
+              2);
+    // The charger's limits are 50 kHz to 1 MHz.
+    for (const std::string f : {"5MHz", "10kHz"}) {
+        r = run("rank " + example("two-cell-charger") + " --source hand --no-save --frequency " +
+                f);
+        EXPECT_EQ(r.code, 2) << f << "\n" << r.out;
+        EXPECT_TRUE(has(r.err, "--frequency " + f)) << r.err;
+        EXPECT_TRUE(has(r.err, "f_sw_min..f_sw_max")) << r.err;
+        EXPECT_TRUE(r.out.empty()) << "no ranking is run: " << r.out;
+    }
+    EXPECT_NE(
+        run("rank " + example("two-cell-charger") + " --source hand --no-save --frequency 300kHz")
+            .code,
+        2);
+    // A new limit that rules out a study's fixed frequency.
+    ASSERT_NE(run("rank " + example("two-cell-charger") +
+                  " --source hand --frequency 600kHz --study fixed")
+                  .code,
+              2);
+    r = run("study rerun fixed --no-save --limit 'f_sw<=500kHz'");
+    EXPECT_EQ(r.code, 2) << r.out;
+    EXPECT_TRUE(has(r.err, "the study's fixed frequency")) << r.err;
+}
