@@ -398,21 +398,40 @@ RankSession run_ranking(const design::Design& d, const EffectiveOptions& o, unsi
     return s;
 }
 
+void check_study_name(const RankCliOptions& o, Context& ctx) {
+    if (o.no_save || o.study.empty()) return;
+    studies::StudyStore store(ctx.store().database());
+    if (store.find(o.study))
+        throw UsageError("--study " + o.study +
+                         ": a study with this name exists already; choose another name, delete "
+                         "it with `coilsieve study delete " +
+                         o.study + "`, or give --no-save");
+}
+
 int report_and_save(RankSession& s, const RankCliOptions& o, Context& ctx,
                     std::optional<std::int64_t> parent) {
     std::string study_name;
+    std::string not_saved; // why the run could not be saved; reported after the ranking
     if (!o.no_save) {
-        studies::StudyStore store(ctx.store().database());
-        studies::Study st;
-        st.created = studies::utc_now();
-        st.name = o.study.empty() ? store.generate_name(s.design.name, st.created) : o.study;
-        st.parent_id = parent;
-        st.design = design::to_json(s.design);
-        st.options = to_json(s.options);
-        st.fingerprint = s.fingerprint;
-        st.results = studies::results_to_json(s.result, s.inductors, s.diodes, false);
-        store.save(st);
-        study_name = st.name;
+        try {
+            studies::StudyStore store(ctx.store().database());
+            studies::Study st;
+            st.created = studies::utc_now();
+            st.name = o.study.empty() ? store.generate_name(s.design.name, st.created) : o.study;
+            st.parent_id = parent;
+            st.design = design::to_json(s.design);
+            st.options = to_json(s.options);
+            st.fingerprint = s.fingerprint;
+            st.results = studies::results_to_json(s.result, s.inductors, s.diodes, false);
+            store.save(st);
+            study_name = st.name;
+        } catch (const studies::StudyError& e) {
+            not_saved = e.what();
+        } catch (const catalog::sqlite::SqliteError& e) {
+            // The SQLite message quotes the statement: not for the user.
+            not_saved = e.busy() ? "the database is busy (another program is writing to it)"
+                                 : "the database could not be written";
+        }
     }
     report::RankReportInput in{s.design, s.inductors, s.diodes, s.result, study_name};
     std::optional<studies::WhyReport> why;
@@ -434,6 +453,13 @@ int report_and_save(RankSession& s, const RankCliOptions& o, Context& ctx,
         ctx.out() << report::rank_text(in);
         if (why) ctx.out() << "\nWhy " << o.why << ":\n" << why->text;
     }
+    if (!not_saved.empty()) {
+        ctx.out() << std::flush;
+        ctx.err() << "error: the ranking above could not be saved as a study in "
+                  << ctx.store().path().string() << ": " << not_saved
+                  << "; check that the file and its folder are writable, or give --no-save\n";
+        return exit_error;
+    }
     return s.result.top.empty() ? exit_error : exit_ok;
 }
 
@@ -447,6 +473,7 @@ int run_rank(const RankCliOptions& o, Context& ctx) {
     }
     apply_overrides(d, o);
     const EffectiveOptions eo = merge_options(EffectiveOptions{}, o, d);
+    check_study_name(o, ctx);
     RankSession s = run_ranking(d, eo, o.threads, ctx, true);
     return report_and_save(s, o, ctx, std::nullopt);
 }

@@ -82,8 +82,12 @@ struct RankSession {
 RankSession run_ranking(const design::Design& d, const EffectiveOptions& o, unsigned threads,
                         Context& ctx, bool progress);
 
+// Refuses (UsageError) a --study name that is taken, before any ranking is run.
+void check_study_name(const RankCliOptions& o, Context& ctx);
+
 // Print the session in the chosen format (+ --why), save it as a study unless no_save.
-// Returns the exit code (1 when no pair is feasible).
+// Returns the exit code (1 when no pair is feasible, or when the study could not be saved: the
+// ranking is printed all the same and the reason follows on stderr).
 int report_and_save(RankSession& s, const RankCliOptions& o, Context& ctx,
                     std::optional<std::int64_t> parent);
 

@@ -1,5 +1,6 @@
 // `coilsieve rank`, `study rerun` and `sweep` options on a small imported catalog: what the
 // command line may change in a design, and what it must refuse before any ranking runs.
+#include "catalog/sqlite.hpp"
 #include "cli_run.hpp"
 
 #include <fstream>
@@ -103,4 +104,37 @@ TEST_F(RankCli, AFixedSettingThatCanNeverWorkIsRefusedUpFront) {
     r = run("study rerun fixed --no-save --limit 'f_sw<=500kHz'");
     EXPECT_EQ(r.code, 2) << r.out;
     EXPECT_TRUE(has(r.err, "the study's fixed frequency")) << r.err;
+}
+
+TEST_F(RankCli, ATakenStudyNameIsRefusedBeforeRanking) {
+    const std::string rank = "rank " + example("reading-lamp") + " --source hand ";
+    ASSERT_EQ(run(rank + "--study lamp").code, 0);
+    Outcome r = run(rank + "--study lamp");
+    EXPECT_EQ(r.code, 2);
+    EXPECT_TRUE(r.out.empty()) << "no ranking is run: " << r.out;
+    EXPECT_TRUE(has(r.err, "--study lamp")) << r.err;
+    EXPECT_TRUE(has(r.err, "exists already")) << r.err;
+    r = run("study rerun lamp --study lamp");
+    EXPECT_EQ(r.code, 2);
+    EXPECT_TRUE(r.out.empty()) << r.out;
+    EXPECT_TRUE(has(r.err, "--study lamp")) << r.err;
+}
+
+TEST_F(RankCli, ARankingThatCannotBeSavedIsPrintedAndTheFailureExplained) {
+    ASSERT_EQ(run("rank " + example("reading-lamp") + " --source hand --no-save").code, 0);
+    {
+        // A database that refuses new studies (as a read-only file would; this runs as any user).
+        coilsieve::catalog::sqlite::Database catalog(db());
+        catalog.exec("CREATE TRIGGER refuse BEFORE INSERT ON study BEGIN "
+                     "SELECT RAISE(ABORT, 'refused by the test'); END");
+    }
+    const Outcome r = run("rank " + example("reading-lamp") + " --source hand --study lamp");
+    EXPECT_EQ(r.code, 1);
+    EXPECT_TRUE(has(r.out, "GEN-L-MCP-6.6x6.4x3-100u")) << "the ranking is printed: " << r.out;
+    EXPECT_FALSE(has(r.out, "Saved as study")) << r.out;
+    EXPECT_TRUE(has(r.err, "could not be saved")) << r.err;
+    EXPECT_TRUE(has(r.err, db().string())) << r.err;
+    EXPECT_TRUE(has(r.err, "--no-save")) << r.err;
+    for (const char* sql : {"INSERT", "TRIGGER", "refused by the test"})
+        EXPECT_FALSE(has(r.err, sql)) << r.err;
 }
