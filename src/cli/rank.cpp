@@ -67,18 +67,34 @@ std::vector<std::string> limit_names() {
 
 void apply_limit(design::Design& d, std::string_view spec) {
     const std::string text(spec);
+    const std::string forms = "write NAME<=VALUE (a maximum), NAME>=VALUE (a minimum) or "
+                              "LIMIT=VALUE with a design file's limit name, e.g. height<=3mm, "
+                              "efficiency>=90% or height_max=3mm";
     const auto pos = text.find_first_of("<>=");
     if (pos == std::string::npos || pos == 0)
-        throw UsageError("--limit \"" + text +
-                         "\": write NAME<=VALUE or NAME>=VALUE, e.g. "
-                         "height<=3mm or efficiency>=90%");
+        throw UsageError("--limit \"" + text + "\": " + forms);
     std::string name = trim(text.substr(0, pos));
     Direction op = Direction::either;
     std::size_t vpos = pos + 1;
     if (text[pos] == '<' || text[pos] == '>') {
         op = text[pos] == '<' ? Direction::upper : Direction::lower;
-        if (vpos < text.size() && text[vpos] == '=') ++vpos;
+        // Every limit includes its bound, so a strict comparison would be read wrongly.
+        if (vpos >= text.size() || text[vpos] != '=')
+            throw UsageError("--limit \"" + text + "\": a strict \"" + text[pos] +
+                             "\" is not accepted, a limit includes its bound; use <= or >=, e.g. " +
+                             name + (op == Direction::upper ? "<=" : ">=") +
+                             trim(text.substr(vpos)));
+        ++vpos;
     }
+    if (vpos < text.size() && std::string_view("<>=").find(text[vpos]) != std::string_view::npos)
+        throw UsageError("--limit \"" + text + "\": " + forms);
+    // "height=3mm" could read as "exactly 3 mm": `=` sets a design file's limit, named as there.
+    const bool short_name = name == "height" || name == "footprint" || name == "efficiency" ||
+                            name == "tj" || name == "ripple" || name == "t_inductor";
+    if (op == Direction::either && short_name)
+        throw UsageError("--limit \"" + text +
+                         "\": NAME=VALUE takes a design file's limit name, and " + name +
+                         " is not one; " + forms);
     const std::string value = trim(text.substr(vpos));
     // Short forms.
     if (name == "height") name = "height_max";
@@ -496,8 +512,9 @@ void add_rank_options(CLI::App* c, RankCliOptions& o, bool with_study) {
     c->add_option("--frequency", o.frequency,
                   "fix the PWM frequency (\"300kHz\") instead of tuning it");
     c->add_option("--limit", o.limits,
-                  "override a limit: NAME<=VALUE or NAME>=VALUE (repeatable), e.g. height<=3mm, "
-                  "load_ripple<=10%, f_sw<=500kHz, efficiency>=90%");
+                  "override a limit: NAME<=VALUE or NAME>=VALUE, or LIMIT=VALUE with a design "
+                  "file's limit name (repeatable), e.g. height<=3mm, load_ripple<=10%, "
+                  "f_sw<=500kHz, efficiency>=90%, height_max=3mm");
     c->add_option("--weight", o.weights,
                   "objective weight NAME=VALUE (loss, size, ripple, margin, cost)");
     c->add_option("--pareto", o.pareto,

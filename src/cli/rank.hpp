@@ -58,7 +58,8 @@ void check_fixed_band(double band, const design::Design& d, const std::string& g
 
 // Known limit names for --limit, with their short forms.
 std::vector<std::string> limit_names();
-// "NAME<=VALUE" / "NAME>=VALUE" / "NAME=VALUE"; throws UsageError naming the input.
+// "NAME<=VALUE" / "NAME>=VALUE" (short or design file names) / "LIMIT=VALUE" (design file names
+// only, as in the file); throws UsageError naming the input and the accepted forms.
 void apply_limit(design::Design& d, std::string_view spec);
 // "NAME=VALUE" for loss, size, ripple, margin, cost; throws UsageError.
 void apply_weight(design::Design& d, std::string_view spec);

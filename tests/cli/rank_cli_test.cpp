@@ -138,3 +138,27 @@ TEST_F(RankCli, ARankingThatCannotBeSavedIsPrintedAndTheFailureExplained) {
     for (const char* sql : {"INSERT", "TRIGGER", "refused by the test"})
         EXPECT_FALSE(has(r.err, sql)) << r.err;
 }
+
+TEST_F(RankCli, LimitsTakeInclusiveBoundsOrTheDesignFilesNames) {
+    const std::string rank = "rank " + example("reading-lamp") + " --source hand ";
+    for (const std::string bad : {"height<3mm", "efficiency>90%"}) {
+        const Outcome r = run(rank + "--no-save --limit '" + bad + "'");
+        EXPECT_EQ(r.code, 2) << bad << "\n" << r.out;
+        EXPECT_TRUE(has(r.err, "--limit \"" + bad + "\"")) << r.err;
+        EXPECT_TRUE(has(r.err, "use <= or >=")) << r.err;
+        EXPECT_TRUE(r.out.empty()) << r.out;
+    }
+    for (const std::string bad : {"height==3mm", "height=<3mm", "height=3mm"}) {
+        const Outcome r = run(rank + "--no-save --limit '" + bad + "'");
+        EXPECT_EQ(r.code, 2) << bad << "\n" << r.out;
+        EXPECT_TRUE(has(r.err, "NAME<=VALUE")) << r.err;
+        EXPECT_TRUE(has(r.err, "height_max=3mm")) << r.err;
+        EXPECT_FALSE(has(r.err, "does not start with a number")) << r.err;
+    }
+    // LIMIT=VALUE with the design file's name sets that limit.
+    ASSERT_NE(run(rank + "--study h --limit 'height_max=3mm'").code, 2);
+    const Outcome r = run("study show h --json");
+    ASSERT_EQ(r.code, 0) << r.err;
+    const auto j = nlohmann::json::parse(r.out);
+    EXPECT_DOUBLE_EQ(j["design"]["limits"]["height_max"].get<double>(), 0.003);
+}
