@@ -75,7 +75,12 @@ converter::Setting setting_from(const CheckOptions& o, const design::Design& d) 
 } // namespace
 
 int run_check(const CheckOptions& o, Context& ctx) {
-    const design::Design d = design::load_design_file(o.design_file);
+    design::Design d;
+    try {
+        d = design::load_design_file(o.design_file);
+    } catch (const design::DesignError& e) {
+        throw UsageError(e.what()); // as in rank: the design file is part of the command's input
+    }
     const converter::Setting s = setting_from(o, d);
     auto& store = ctx.store();
     const parts::Inductor l =

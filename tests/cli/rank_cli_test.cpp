@@ -162,3 +162,34 @@ TEST_F(RankCli, LimitsTakeInclusiveBoundsOrTheDesignFilesNames) {
     const auto j = nlohmann::json::parse(r.out);
     EXPECT_DOUBLE_EQ(j["design"]["limits"]["height_max"].get<double>(), 0.003);
 }
+
+// The exit codes the README and --help give: a bad design file is a usage error in every command.
+TEST_F(RankCli, ABadDesignFileExitsTwoInEveryCommand) {
+    const auto bad = file("bad.json", R"({"name": "x", "supply": {"min": "20V"}})");
+    const std::string d = "'" + bad.string() + "'";
+    for (const std::string& cmd : std::vector<std::string>{
+             "rank " + d + " --source hand --no-save",
+             "sweep " + d + " --vary supply.nom=20V..24V:2",
+             "check " + d +
+                 " --inductor GEN-L-MCP-6.6x6.4x3-100u --diode GEN-D-SCH-60V-2A-SOD-123F"}) {
+        const Outcome r = run(cmd);
+        EXPECT_EQ(r.code, 2) << cmd << "\n" << r.err;
+        EXPECT_TRUE(has(r.err, "bad.json")) << r.err;
+    }
+}
+
+// The README's required diode fields: a known package, or rth_ja with the three dimensions.
+TEST_F(RankCli, ADiodeNeedsAPackageOrItsThermalResistanceAndSize) {
+    const std::string head = "id,technology,vrrm,if_avg,vf1,if1";
+    const std::string row = "X1,schottky,40V,1A,0.5V,1A";
+    auto import = [&](const std::string& extra_head, const std::string& extra_row) {
+        const auto f = file("d1.csv", head + extra_head + "\n" + row + extra_row + "\n");
+        return run("parts import '" + f.string() + "' --kind diode --source t --dry-run");
+    };
+    Outcome r = import("", "");
+    EXPECT_EQ(r.code, 1);
+    EXPECT_TRUE(has(r.err, "package")) << r.err;
+    EXPECT_EQ(import(",rth_ja", ",100").code, 1);
+    EXPECT_EQ(import(",rth_ja,length,width,height", ",100,3mm,2mm,1mm").code, 0);
+    EXPECT_EQ(import(",package", ",SMA").code, 0);
+}
