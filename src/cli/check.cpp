@@ -141,9 +141,13 @@ int run_check(const CheckOptions& o, Context& ctx) {
                 const std::string text =
                     simulation::write_netlist(d, lm, dm, c, cs, e.corners[nominal]);
                 std::ofstream f(o.netlist, std::ios::binary);
-                if (!f) throw std::runtime_error("cannot write the netlist to " + o.netlist);
+                const std::string hint = ": check that the folder exists and is writable";
+                if (!f) throw std::runtime_error("cannot write the netlist to " + o.netlist + hint);
                 f << text;
-                if (!f) throw std::runtime_error("writing the netlist to " + o.netlist + " failed");
+                f.close();
+                if (!f)
+                    throw std::runtime_error("writing the netlist to " + o.netlist + " failed" +
+                                             hint);
                 in.notes.push_back("ngspice netlist of corner \"" + c.name + "\" written to " +
                                    o.netlist + " (run: ngspice -b " + o.netlist + ").");
             }

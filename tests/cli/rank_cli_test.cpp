@@ -193,3 +193,13 @@ TEST_F(RankCli, ADiodeNeedsAPackageOrItsThermalResistanceAndSize) {
     EXPECT_EQ(import(",rth_ja,length,width,height", ",100,3mm,2mm,1mm").code, 0);
     EXPECT_EQ(import(",package", ",SMA").code, 0);
 }
+
+TEST_F(RankCli, ANetlistThatCannotBeWrittenSaysWhatToCheck) {
+    const Outcome r = run("check " + example("reading-lamp") +
+                          " --inductor hand:GEN-L-MCP-6.6x6.4x3-100u"
+                          " --diode hand:GEN-D-SCH-60V-2A-SOD-123F --netlist '" +
+                          (dir_ / "no-such-folder" / "x.cir").string() + "'");
+    EXPECT_EQ(r.code, 1) << r.out;
+    EXPECT_TRUE(has(r.err, "x.cir")) << r.err;
+    EXPECT_TRUE(has(r.err, "check that the folder exists and is writable")) << r.err;
+}
