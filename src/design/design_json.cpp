@@ -608,6 +608,8 @@ private:
                      "{\"loss\": 1, \"size\": 1, \"ripple\": 0.5, \"margin\": 0.5, "
                      "\"cost\": 0}");
         check_keys(v, p, {"loss", "size", "ripple", "margin", "cost"});
+        // An empty object names no weight: it means the defaults, as no object does.
+        if (v.empty()) return Weights{};
         // A weights object names every weight that counts; the ones left out are zero.
         Weights w{0.0, 0.0, 0.0, 0.0, 0.0};
         auto field = [&](std::string_view key, double& out) {

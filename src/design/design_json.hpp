@@ -4,8 +4,9 @@
 // (temperatures: bare numbers are °C). to_json writes SI numbers and round-trips exactly.
 // control.band / band_range: "25%" or a bare number is a fraction of the target current, "0.2A" a
 // current. A `weights` object given in the file counts only the weights it names (others are 0);
-// without one the defaults of design.hpp apply. Battery termination/pre-charge currents left out
-// take the chemistry preset (loads/load.hpp) and are stored explicitly.
+// without one, or with an empty one, the defaults of design.hpp apply. Battery termination and
+// pre-charge currents left out take the chemistry preset (loads/load.hpp) and are stored
+// explicitly.
 
 #include "design/design.hpp"
 
