@@ -164,8 +164,13 @@ SweepSpec parse_sweep(std::string_view text, const design::Design& d) {
     s.path = split_path(t.substr(0, eq));
     const nlohmann::json j = design::to_json(d);
     const nlohmann::json* field = find(j, s.path);
-    if (field == nullptr || !(field->is_number() || field->is_string()) ||
-        s.path.front() == "name") {
+    // A string is a quantity with units (a band in amperes, a temperature in kelvin) only where
+    // the field has a dimension; load.type or control.mode are words.
+    const bool numeric =
+        field != nullptr && s.path.front() != "name" &&
+        (field->is_number() ||
+         (field->is_string() && field_dimension(s.path, d) != u::Dimension::dimensionless));
+    if (!numeric) {
         std::string fields;
         for (const char* f : {"supply.min", "supply.nom", "supply.max", "load.current",
                               "sense_resistor", "control.band", "control.delay", "ambient.max",

@@ -110,6 +110,11 @@ TEST_F(SweepCli, BadVaryIsAUsageErrorNamingTheField) {
     Outcome r = run("sweep '" + design_ + "' --source hand --vary load.colour=1..2:3");
     EXPECT_EQ(r.code, 2);
     EXPECT_NE(r.err.find("load.colour"), std::string::npos) << r.err;
+    for (const std::string word : {"load.type", "control.mode", "name"}) {
+        r = run("sweep '" + design_ + "' --source hand --vary " + word + "=1..2:2");
+        EXPECT_EQ(r.code, 2) << word;
+        EXPECT_NE(r.err.find("no numeric field \"" + word + "\""), std::string::npos) << r.err;
+    }
     r = run("sweep '" + design_ + "' --source hand --vary load.current=3V..5V:3");
     EXPECT_EQ(r.code, 2);
     EXPECT_NE(r.err.find("current"), std::string::npos) << r.err;
