@@ -1,5 +1,6 @@
 #include "cli/check.hpp"
 
+#include "cli/rank.hpp"
 #include "converter/evaluate.hpp"
 #include "design/design_json.hpp"
 #include "report/check_report.hpp"
@@ -54,6 +55,7 @@ converter::Setting setting_from(const CheckOptions& o, const design::Design& d) 
         }
         if (!(s.band > 0.0))
             throw UsageError("--band \"" + o.band + "\": the band must be above zero");
+        check_fixed_band(s.band, d, "--band " + o.band);
     }
     if (!o.frequency.empty()) {
         if (hysteretic)
@@ -73,7 +75,12 @@ converter::Setting setting_from(const CheckOptions& o, const design::Design& d) 
 } // namespace
 
 int run_check(const CheckOptions& o, Context& ctx) {
-    const design::Design d = design::load_design_file(o.design_file);
+    design::Design d;
+    try {
+        d = design::load_design_file(o.design_file);
+    } catch (const design::DesignError& e) {
+        throw UsageError(e.what()); // as in rank: the design file is part of the command's input
+    }
     const converter::Setting s = setting_from(o, d);
     auto& store = ctx.store();
     const parts::Inductor l =
@@ -134,9 +141,13 @@ int run_check(const CheckOptions& o, Context& ctx) {
                 const std::string text =
                     simulation::write_netlist(d, lm, dm, c, cs, e.corners[nominal]);
                 std::ofstream f(o.netlist, std::ios::binary);
-                if (!f) throw std::runtime_error("cannot write the netlist to " + o.netlist);
+                const std::string hint = ": check that the folder exists and is writable";
+                if (!f) throw std::runtime_error("cannot write the netlist to " + o.netlist + hint);
                 f << text;
-                if (!f) throw std::runtime_error("writing the netlist to " + o.netlist + " failed");
+                f.close();
+                if (!f)
+                    throw std::runtime_error("writing the netlist to " + o.netlist + " failed" +
+                                             hint);
                 in.notes.push_back("ngspice netlist of corner \"" + c.name + "\" written to " +
                                    o.netlist + " (run: ngspice -b " + o.netlist + ").");
             }

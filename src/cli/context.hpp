@@ -16,7 +16,8 @@ class App;
 
 namespace coilsieve::cli {
 
-// Exit codes: 0 success, 1 a runtime or data error, 2 a usage error (bad option or argument).
+// Exit codes: 0 success, 1 a runtime or data error (also: no feasible pair, a broken limit), 2 a
+// usage error (bad option, argument or design file).
 inline constexpr int exit_ok = 0;
 inline constexpr int exit_error = 1;
 inline constexpr int exit_usage = 2;

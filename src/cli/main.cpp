@@ -35,7 +35,9 @@ int main(int argc, char** argv) {
                    "catalog file (default: $COILSIEVE_DB, else "
                    "$XDG_DATA_HOME/coilsieve/catalog.db or ~/.local/share/coilsieve/catalog.db)");
     app.footer("Example:\n  coilsieve parts list inductors --inductance 10u..22u --isat-min 2A\n"
-               "Exit codes: 0 success, 1 runtime or data error, 2 usage error.");
+               "Exit codes: 0 success; 1 no feasible pair (rank), a broken limit (check), or a\n"
+               "runtime or data error (catalog, part list, a file that cannot be written); 2 a\n"
+               "usage error (a bad option, argument or design file).");
 
     std::vector<Command> commands;
     auto add = [&](std::vector<Command> more) {

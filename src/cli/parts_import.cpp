@@ -52,6 +52,10 @@ void write_rejects(const std::string& path, const std::vector<catalog::ImportPro
     if (!out) throw std::runtime_error(path + ": write error");
 }
 
+std::string counted(int n, const std::string& noun) {
+    return std::to_string(n) + " " + noun + (n == 1 ? "" : "s");
+}
+
 } // namespace
 
 catalog::PartKind parse_kind(std::string_view text, std::string_view option) {
@@ -87,11 +91,12 @@ int run_parts_import(const PartsImportOptions& o, Context& ctx) {
     for (const auto& p : s.problems) ctx.err() << p.to_string() << "\n";
     if (!o.skip_bad.empty() && !s.problems.empty() && !o.dry_run) {
         write_rejects(o.skip_bad, s.problems);
-        ctx.err() << s.rejected << " rows rejected; reasons written to " << o.skip_bad << "\n";
+        ctx.err() << counted(s.rejected, "row") << " rejected; reasons written to " << o.skip_bad
+                  << "\n";
     }
-    const std::string kind = std::string(catalog::to_string(req.kind)) + "s";
-    ctx.out() << (o.dry_run ? "dry run: would import " : "imported ") << s.accepted << " " << kind
-              << " of " << s.rows << " rows into source \"" << o.source << "\": " << s.added
+    ctx.out() << (o.dry_run ? "dry run: would import " : "imported ")
+              << counted(s.accepted, std::string(catalog::to_string(req.kind))) << " of "
+              << counted(s.rows, "row") << " into source \"" << o.source << "\": " << s.added
               << " added, " << s.replaced << " replaced, " << s.unchanged << " unchanged, "
               << s.removed << " removed"
               << (s.rejected ? ", " + std::to_string(s.rejected) + " rejected" : "") << "\n";

@@ -67,18 +67,34 @@ std::vector<std::string> limit_names() {
 
 void apply_limit(design::Design& d, std::string_view spec) {
     const std::string text(spec);
+    const std::string forms = "write NAME<=VALUE (a maximum), NAME>=VALUE (a minimum) or "
+                              "LIMIT=VALUE with a design file's limit name, e.g. height<=3mm, "
+                              "efficiency>=90% or height_max=3mm";
     const auto pos = text.find_first_of("<>=");
     if (pos == std::string::npos || pos == 0)
-        throw UsageError("--limit \"" + text +
-                         "\": write NAME<=VALUE or NAME>=VALUE, e.g. "
-                         "height<=3mm or efficiency>=90%");
+        throw UsageError("--limit \"" + text + "\": " + forms);
     std::string name = trim(text.substr(0, pos));
     Direction op = Direction::either;
     std::size_t vpos = pos + 1;
     if (text[pos] == '<' || text[pos] == '>') {
         op = text[pos] == '<' ? Direction::upper : Direction::lower;
-        if (vpos < text.size() && text[vpos] == '=') ++vpos;
+        // Every limit includes its bound, so a strict comparison would be read wrongly.
+        if (vpos >= text.size() || text[vpos] != '=')
+            throw UsageError("--limit \"" + text + "\": a strict \"" + text[pos] +
+                             "\" is not accepted, a limit includes its bound; use <= or >=, e.g. " +
+                             name + (op == Direction::upper ? "<=" : ">=") +
+                             trim(text.substr(vpos)));
+        ++vpos;
     }
+    if (vpos < text.size() && std::string_view("<>=").find(text[vpos]) != std::string_view::npos)
+        throw UsageError("--limit \"" + text + "\": " + forms);
+    // "height=3mm" could read as "exactly 3 mm": `=` sets a design file's limit, named as there.
+    const bool short_name = name == "height" || name == "footprint" || name == "efficiency" ||
+                            name == "tj" || name == "ripple" || name == "t_inductor";
+    if (op == Direction::either && short_name)
+        throw UsageError("--limit \"" + text +
+                         "\": NAME=VALUE takes a design file's limit name, and " + name +
+                         " is not one; " + forms);
     const std::string value = trim(text.substr(vpos));
     // Short forms.
     if (name == "height") name = "height_max";
@@ -186,6 +202,18 @@ void apply_overrides(design::Design& d, const RankCliOptions& o) {
         throw UsageError("conflicting limits: the PWM frequency range starts at " +
                          fmt(d.control.frequency_min, u::Dimension::frequency) +
                          ", above the limit f_sw_max " + fmt(*l.f_sw_max, u::Dimension::frequency));
+    // The same rules as a design file, so that no option can make a design a file could not be.
+    std::string given;
+    for (const auto& [name, used] :
+         {std::pair{"--limit", !o.limits.empty()}, std::pair{"--weight", !o.weights.empty()},
+          std::pair{"--pareto", !o.pareto.empty()}})
+        if (used) given += std::string(given.empty() ? "" : ", ") + name;
+    try {
+        design::validate(d, given.empty() ? std::string("the design")
+                                          : "the design with " + given + " applied");
+    } catch (const design::DesignError& e) {
+        throw UsageError(e.what());
+    }
 }
 
 nlohmann::json to_json(const EffectiveOptions& o) {
@@ -273,7 +301,35 @@ EffectiveOptions merge_options(EffectiveOptions base, const RankCliOptions& o,
         base.frequency = f;
         base.band.reset();
     }
+    // A stored study's setting is checked too: new limits may rule it out.
+    if (base.band)
+        check_fixed_band(*base.band, d,
+                         o.band.empty() ? "the study's fixed band" : "--band " + o.band);
+    if (base.frequency) {
+        const std::string given =
+            o.frequency.empty() ? "the study's fixed frequency" : "--frequency " + o.frequency;
+        const auto& l = d.limits;
+        const auto hz = [](double v) { return fmt(v, u::Dimension::frequency); };
+        const std::string range =
+            l.f_sw_max ? hz(l.f_sw_min) + " to " + hz(*l.f_sw_max) : "at least " + hz(l.f_sw_min);
+        if (*base.frequency < l.f_sw_min || (l.f_sw_max && *base.frequency > *l.f_sw_max))
+            throw UsageError(given + ": a fixed PWM frequency of " + hz(*base.frequency) +
+                             " is outside the design's limits f_sw_min..f_sw_max and can never "
+                             "meet them; give one " +
+                             (l.f_sw_max ? "from " : "") + range +
+                             ", or leave --frequency out to tune it");
+    }
     return base;
+}
+
+void check_fixed_band(double band, const design::Design& d, const std::string& given) {
+    const double target = loads::target_current(d.load);
+    if (!(band < 2.0 * target))
+        throw UsageError(given + ": a band of " + fmt(band, u::Dimension::current) +
+                         " p-p around " + fmt(target, u::Dimension::current) +
+                         " would take the valley below zero; keep it under 200 % of the target "
+                         "current (below " +
+                         fmt(2.0 * target, u::Dimension::current) + ")");
 }
 
 namespace {
@@ -358,21 +414,40 @@ RankSession run_ranking(const design::Design& d, const EffectiveOptions& o, unsi
     return s;
 }
 
+void check_study_name(const RankCliOptions& o, Context& ctx) {
+    if (o.no_save || o.study.empty()) return;
+    studies::StudyStore store(ctx.store().database());
+    if (store.find(o.study))
+        throw UsageError("--study " + o.study +
+                         ": a study with this name exists already; choose another name, delete "
+                         "it with `coilsieve study delete " +
+                         o.study + "`, or give --no-save");
+}
+
 int report_and_save(RankSession& s, const RankCliOptions& o, Context& ctx,
                     std::optional<std::int64_t> parent) {
     std::string study_name;
+    std::string not_saved; // why the run could not be saved; reported after the ranking
     if (!o.no_save) {
-        studies::StudyStore store(ctx.store().database());
-        studies::Study st;
-        st.created = studies::utc_now();
-        st.name = o.study.empty() ? store.generate_name(s.design.name, st.created) : o.study;
-        st.parent_id = parent;
-        st.design = design::to_json(s.design);
-        st.options = to_json(s.options);
-        st.fingerprint = s.fingerprint;
-        st.results = studies::results_to_json(s.result, s.inductors, s.diodes, false);
-        store.save(st);
-        study_name = st.name;
+        try {
+            studies::StudyStore store(ctx.store().database());
+            studies::Study st;
+            st.created = studies::utc_now();
+            st.name = o.study.empty() ? store.generate_name(s.design.name, st.created) : o.study;
+            st.parent_id = parent;
+            st.design = design::to_json(s.design);
+            st.options = to_json(s.options);
+            st.fingerprint = s.fingerprint;
+            st.results = studies::results_to_json(s.result, s.inductors, s.diodes, false);
+            store.save(st);
+            study_name = st.name;
+        } catch (const studies::StudyError& e) {
+            not_saved = e.what();
+        } catch (const catalog::sqlite::SqliteError& e) {
+            // The SQLite message quotes the statement: not for the user.
+            not_saved = e.busy() ? "the database is busy (another program is writing to it)"
+                                 : "the database could not be written";
+        }
     }
     report::RankReportInput in{s.design, s.inductors, s.diodes, s.result, study_name};
     std::optional<studies::WhyReport> why;
@@ -394,6 +469,13 @@ int report_and_save(RankSession& s, const RankCliOptions& o, Context& ctx,
         ctx.out() << report::rank_text(in);
         if (why) ctx.out() << "\nWhy " << o.why << ":\n" << why->text;
     }
+    if (!not_saved.empty()) {
+        ctx.out() << std::flush;
+        ctx.err() << "error: the ranking above could not be saved as a study in "
+                  << ctx.store().path().string() << ": " << not_saved
+                  << "; check that the file and its folder are writable, or give --no-save\n";
+        return exit_error;
+    }
     return s.result.top.empty() ? exit_error : exit_ok;
 }
 
@@ -407,6 +489,7 @@ int run_rank(const RankCliOptions& o, Context& ctx) {
     }
     apply_overrides(d, o);
     const EffectiveOptions eo = merge_options(EffectiveOptions{}, o, d);
+    check_study_name(o, ctx);
     RankSession s = run_ranking(d, eo, o.threads, ctx, true);
     return report_and_save(s, o, ctx, std::nullopt);
 }
@@ -429,8 +512,9 @@ void add_rank_options(CLI::App* c, RankCliOptions& o, bool with_study) {
     c->add_option("--frequency", o.frequency,
                   "fix the PWM frequency (\"300kHz\") instead of tuning it");
     c->add_option("--limit", o.limits,
-                  "override a limit: NAME<=VALUE or NAME>=VALUE (repeatable), e.g. height<=3mm, "
-                  "load_ripple<=10%, f_sw<=500kHz, efficiency>=90%");
+                  "override a limit: NAME<=VALUE or NAME>=VALUE, or LIMIT=VALUE with a design "
+                  "file's limit name (repeatable), e.g. height<=3mm, load_ripple<=10%, "
+                  "f_sw<=500kHz, efficiency>=90%, height_max=3mm");
     c->add_option("--weight", o.weights,
                   "objective weight NAME=VALUE (loss, size, ripple, margin, cost)");
     c->add_option("--pareto", o.pareto,

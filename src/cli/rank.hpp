@@ -52,9 +52,14 @@ EffectiveOptions effective_options_from_json(const nlohmann::json& j);
 EffectiveOptions merge_options(EffectiveOptions base, const RankCliOptions& o,
                                const design::Design& d);
 
+// A fixed hysteresis band (A) must keep the inductor current's valley above zero; `given` names
+// the input in the message. Throws UsageError.
+void check_fixed_band(double band, const design::Design& d, const std::string& given);
+
 // Known limit names for --limit, with their short forms.
 std::vector<std::string> limit_names();
-// "NAME<=VALUE" / "NAME>=VALUE" / "NAME=VALUE"; throws UsageError naming the input.
+// "NAME<=VALUE" / "NAME>=VALUE" (short or design file names) / "LIMIT=VALUE" (design file names
+// only, as in the file); throws UsageError naming the input and the accepted forms.
 void apply_limit(design::Design& d, std::string_view spec);
 // "NAME=VALUE" for loss, size, ripple, margin, cost; throws UsageError.
 void apply_weight(design::Design& d, std::string_view spec);
@@ -78,8 +83,12 @@ struct RankSession {
 RankSession run_ranking(const design::Design& d, const EffectiveOptions& o, unsigned threads,
                         Context& ctx, bool progress);
 
+// Refuses (UsageError) a --study name that is taken, before any ranking is run.
+void check_study_name(const RankCliOptions& o, Context& ctx);
+
 // Print the session in the chosen format (+ --why), save it as a study unless no_save.
-// Returns the exit code (1 when no pair is feasible).
+// Returns the exit code (1 when no pair is feasible, or when the study could not be saved: the
+// ranking is printed all the same and the reason follows on stderr).
 int report_and_save(RankSession& s, const RankCliOptions& o, Context& ctx,
                     std::optional<std::int64_t> parent);
 

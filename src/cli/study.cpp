@@ -123,6 +123,7 @@ int run_study_rerun(const StudyOptions& o, Context& ctx) {
     apply_overrides(d, o.rank);
     const EffectiveOptions eo =
         merge_options(effective_options_from_json(parent.options), o.rank, d);
+    check_study_name(o.rank, ctx);
     RankSession s = run_ranking(d, eo, o.rank.threads, ctx, true);
     RankCliOptions ro = o.rank;
     if (ro.study.empty()) {

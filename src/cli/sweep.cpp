@@ -70,6 +70,84 @@ const nlohmann::json* find(const nlohmann::json& j, const std::vector<std::strin
     return p;
 }
 
+// The unit a CSV column name carries for a quantity in SI (none for ratios and plain numbers).
+std::string csv_unit(u::Dimension d) {
+    switch (d) {
+    case u::Dimension::dimensionless:
+    case u::Dimension::ratio:
+        return "";
+    case u::Dimension::temperature:
+    case u::Dimension::temperature_difference:
+        return "K";
+    case u::Dimension::resistance:
+        return "ohm";
+    case u::Dimension::battery_capacity:
+        return "As";
+    case u::Dimension::area:
+        return "m2";
+    case u::Dimension::volume:
+        return "m3";
+    case u::Dimension::voltage_per_kelvin:
+        return "V_per_K";
+    default:
+        return std::string(u::unit_symbol(d, true));
+    }
+}
+
+std::string csv_number(double v) {
+    if (!std::isfinite(v)) return "";
+    std::ostringstream os;
+    os.precision(10);
+    os << v;
+    return os.str();
+}
+
+struct Step {
+    double value; // SI
+    RankSession s;
+    bool changed;
+};
+
+// Machine-readable, like `rank --csv`: SI numbers, the unit in the column name.
+std::string sweep_csv(const std::string& field, u::Dimension dim, design::ControlMode mode,
+                      const std::vector<Step>& steps) {
+    const std::string unit = csv_unit(dim);
+    const bool band = mode == design::ControlMode::hysteretic;
+    report::Table t({{unit.empty() ? field : field + "_" + unit},
+                     {"inductor_source"},
+                     {"inductor"},
+                     {"diode_source"},
+                     {"diode"},
+                     {band ? "band_A" : "frequency_Hz"},
+                     {"loss_W"},
+                     {"efficiency"},
+                     {"ripple"},
+                     {"size_m3"},
+                     {"margin"},
+                     {"cost"},
+                     {"score"},
+                     {"changed"}});
+    for (const auto& st : steps) {
+        const std::string value = csv_number(st.value);
+        const std::string changed = st.changed ? "1" : "0";
+        if (st.s.result.top.empty()) {
+            t.add_row({value, "", "", "", "", "", "", "", "", "", "", "", "", changed});
+            continue;
+        }
+        const auto& p = st.s.result.top.front();
+        const auto& b = p.tune.best;
+        const auto& ob = b.objectives;
+        const auto& l = st.s.inductors[p.inductor];
+        const auto& d = st.s.diodes[p.diode];
+        t.add_row({value, l.source, l.id, d.source, d.id,
+                   csv_number(band ? b.setting.band : b.setting.frequency), csv_number(ob.loss),
+                   csv_number(ob.efficiency), csv_number(ob.ripple), csv_number(ob.size),
+                   csv_number(ob.margin), ob.cost ? csv_number(*ob.cost) : "", csv_number(b.score),
+                   changed});
+    }
+    return t.to_csv();
+}
+
 } // namespace
 
 SweepSpec parse_sweep(std::string_view text, const design::Design& d) {
@@ -86,8 +164,13 @@ SweepSpec parse_sweep(std::string_view text, const design::Design& d) {
     s.path = split_path(t.substr(0, eq));
     const nlohmann::json j = design::to_json(d);
     const nlohmann::json* field = find(j, s.path);
-    if (field == nullptr || !(field->is_number() || field->is_string()) ||
-        s.path.front() == "name") {
+    // A string is a quantity with units (a band in amperes, a temperature in kelvin) only where
+    // the field has a dimension; load.type or control.mode are words.
+    const bool numeric =
+        field != nullptr && s.path.front() != "name" &&
+        (field->is_number() ||
+         (field->is_string() && field_dimension(s.path, d) != u::Dimension::dimensionless));
+    if (!numeric) {
         std::string fields;
         for (const char* f : {"supply.min", "supply.nom", "supply.max", "load.current",
                               "sense_resistor", "control.band", "control.delay", "ambient.max",
@@ -115,7 +198,24 @@ SweepSpec parse_sweep(std::string_view text, const design::Design& d) {
     }
     if (s.steps < 2 || s.steps > 200)
         throw UsageError("--vary \"" + t + "\": STEPS must be between 2 and 200");
+    // A count (LEDs, cells) takes whole numbers only: a step between them would be rounded.
+    if (field->is_number_integer()) {
+        for (int i = 0; i < s.steps; ++i) {
+            const double v = step_value(s, i);
+            if (std::abs(v - std::round(v)) > 1e-9)
+                throw UsageError("--vary \"" + t + "\": " + t.substr(0, eq) +
+                                 " is a whole number, but step " + std::to_string(i + 1) + " of " +
+                                 std::to_string(s.steps) + " would be " +
+                                 u::format(v, s.dimension) +
+                                 "; choose FROM, TO and STEPS so that every step is whole, e.g. " +
+                                 t.substr(0, eq) + "=3..6:4");
+        }
+    }
     return s;
+}
+
+double step_value(const SweepSpec& s, int i) {
+    return s.from + (s.to - s.from) * i / (s.steps - 1);
 }
 
 design::Design with_value(const design::Design& d, const SweepSpec& s, double value) {
@@ -154,15 +254,10 @@ int run_sweep(const SweepOptions& o, Context& ctx) {
     const SweepSpec spec = parse_sweep(o.vary, base);
     const EffectiveOptions eo = merge_options(EffectiveOptions{}, ro, base);
 
-    struct Step {
-        double value;
-        RankSession s;
-        bool changed;
-    };
     std::vector<Step> steps;
     std::string previous;
     for (int i = 0; i < spec.steps; ++i) {
-        const double v = spec.from + (spec.to - spec.from) * i / (spec.steps - 1);
+        const double v = step_value(spec, i);
         const design::Design d = with_value(base, spec, v);
         RankSession s = run_ranking(d, eo, ro.threads, ctx, true);
         std::string key = s.result.top.empty()
@@ -188,6 +283,10 @@ int run_sweep(const SweepOptions& o, Context& ctx) {
             j["steps"].push_back(e);
         }
         ctx.out() << j.dump(2) << "\n";
+        return exit_ok;
+    }
+    if (ro.csv) {
+        ctx.out() << sweep_csv(field, spec.dimension, base.control.mode, steps);
         return exit_ok;
     }
     report::Table t({{field, report::Align::right},
@@ -218,7 +317,7 @@ int run_sweep(const SweepOptions& o, Context& ctx) {
              u::format(ob.ripple, u::Dimension::ratio), u::format(ob.size, u::Dimension::volume),
              u::format(ob.margin, u::Dimension::ratio), sc.str(), st.changed ? "yes" : ""});
     }
-    ctx.out() << (ro.csv ? t.to_csv() : t.render());
+    ctx.out() << t.render();
     return exit_ok;
 }
 

@@ -25,6 +25,8 @@ struct SweepSpec {
 
 // Parses the --vary text against a design (the field must exist and be numeric).
 SweepSpec parse_sweep(std::string_view text, const design::Design& d);
+// The value of step `i` (0-based): FROM and TO included, evenly spaced.
+double step_value(const SweepSpec& s, int i);
 // The design with the field at `value` (SI). Throws UsageError when the design rejects it.
 design::Design with_value(const design::Design& d, const SweepSpec& s, double value);
 

@@ -616,6 +616,8 @@ private:
                      "{\"loss\": 1, \"size\": 1, \"ripple\": 0.5, \"margin\": 0.5, "
                      "\"cost\": 0}");
         check_keys(v, p, {"loss", "size", "ripple", "margin", "cost"});
+        // An empty object names no weight: it means the defaults, as no object does.
+        if (v.empty()) return Weights{};
         // A weights object names every weight that counts; the ones left out are zero.
         Weights w{0.0, 0.0, 0.0, 0.0, 0.0};
         auto field = [&](std::string_view key, double& out) {
@@ -747,6 +749,11 @@ Design read_design(const json& j, std::string_view file_name) {
         // Every access is type-checked first; this is a safety net, not a normal path.
         r.fail("", std::string("unexpected JSON content: ") + e.what());
     }
+}
+
+void validate(const Design& d, std::string_view origin) {
+    // The written-out design reads back exactly, so reading it applies every rule of the file.
+    (void)read_design(to_json(d), origin);
 }
 
 Design load_design_file(const std::filesystem::path& path) {

@@ -4,8 +4,9 @@
 // (temperatures: bare numbers are °C). to_json writes SI numbers and round-trips exactly.
 // control.band / band_range: "25%" or a bare number is a fraction of the target current, "0.2A" a
 // current. A `weights` object given in the file counts only the weights it names (others are 0);
-// without one the defaults of design.hpp apply. Battery termination/pre-charge currents left out
-// take the chemistry preset (loads/load.hpp) and are stored explicitly.
+// without one, or with an empty one, the defaults of design.hpp apply. Battery termination and
+// pre-charge currents left out take the chemistry preset (loads/load.hpp) and are stored
+// explicitly.
 
 #include "design/design.hpp"
 
@@ -30,6 +31,10 @@ Design read_design(const nlohmann::json& j, std::string_view file_name);
 
 // Read a design file (JSON; // and /* */ comments allowed). Throws DesignError.
 Design load_design_file(const std::filesystem::path& path);
+
+// Checks a design changed in code (e.g. by command-line options) by the rules a design file
+// meets; `origin` stands for the file name in messages. Throws DesignError.
+void validate(const Design& d, std::string_view origin);
 
 // The effective design with every value written out in SI numbers (temperatures in °C), so that
 // read_design(to_json(d)) == d. Switch fields that took the default are left out, so they are

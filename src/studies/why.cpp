@@ -23,26 +23,43 @@ std::string objective_line(const optimisation::Objectives& o) {
     return s;
 }
 
-// Where `better` beats `worse`, in words.
+} // namespace
+
 std::string advantages(const optimisation::Objectives& better,
-                       const optimisation::Objectives& worse) {
+                       const optimisation::Objectives& worse,
+                       const std::vector<design::Objective>& objectives) {
+    const auto counts = [&](design::Objective o) {
+        return std::find(objectives.begin(), objectives.end(), o) != objectives.end();
+    };
     std::vector<std::string> v;
-    if (better.loss < worse.loss)
+    if (counts(design::Objective::loss) && better.loss < worse.loss)
         v.push_back("lower loss (" + u::format(better.loss, u::Dimension::power) + " vs " +
                     u::format(worse.loss, u::Dimension::power) + ")");
-    if (better.size < worse.size)
+    if (counts(design::Objective::size) && better.size < worse.size)
         v.push_back("smaller (" + u::format(better.size, u::Dimension::volume) + " vs " +
                     u::format(worse.size, u::Dimension::volume) + ")");
-    if (better.ripple < worse.ripple)
+    if (counts(design::Objective::ripple) && better.ripple < worse.ripple)
         v.push_back("less ripple (" + u::format(better.ripple, u::Dimension::ratio) + " vs " +
                     u::format(worse.ripple, u::Dimension::ratio) + ")");
-    if (better.margin > worse.margin)
+    if (counts(design::Objective::margin) && better.margin > worse.margin)
         v.push_back("more Isat margin (" + u::format(better.margin, u::Dimension::ratio) + " vs " +
                     u::format(worse.margin, u::Dimension::ratio) + ")");
-    if (better.cost && worse.cost && *better.cost < *worse.cost) v.push_back("cheaper");
+    if (counts(design::Objective::cost) && better.cost && worse.cost && *better.cost < *worse.cost)
+        v.push_back("cheaper (" + u::format(*better.cost, u::Dimension::dimensionless) + " vs " +
+                    u::format(*worse.cost, u::Dimension::dimensionless) + ")");
     std::string s;
     for (std::size_t i = 0; i < v.size(); ++i) s += (i ? ", " : "") + v[i];
     return s.empty() ? "a lower weighted score" : s;
+}
+
+namespace {
+
+// The objectives the weighted score counts.
+std::vector<design::Objective> weighted(const design::Design& d) {
+    std::vector<design::Objective> out;
+    for (const auto o : design::all_objectives())
+        if (design::weight_of(d.weights, o) > 0.0) out.push_back(o);
+    return out;
 }
 
 } // namespace
@@ -167,11 +184,11 @@ WhyReport explain_part(const design::Design& d, const std::vector<parts::Inducto
             const auto& last = main.top.back();
             os << "  Outranked: the last listed pair, rank " << last.rank << " "
                << pair_key(last, inductors, diodes) << ", scores " << last.tune.best.score
-               << " with " << advantages(last.tune.best.objectives, bo) << ".\n";
+               << " with " << advantages(last.tune.best.objectives, bo, weighted(d)) << ".\n";
             const auto& first = main.top.front();
             os << "  The best pair " << pair_key(first, inductors, diodes) << " scores "
-               << first.tune.best.score << " with " << advantages(first.tune.best.objectives, bo)
-               << ".\n";
+               << first.tune.best.score << " with "
+               << advantages(first.tune.best.objectives, bo, weighted(d)) << ".\n";
             w.json["outranked_by"] = pair_key(last, inductors, diodes);
         }
     }
@@ -181,7 +198,7 @@ WhyReport explain_part(const design::Design& d, const std::vector<parts::Inducto
             if (dominates(pareto_vector(p.tune.best.objectives, pareto_objectives(d)), v)) {
                 os << "  Not on the Pareto set: " << pair_key(p, inductors, diodes)
                    << " is at least as good on every axis, with "
-                   << advantages(p.tune.best.objectives, bo) << ".\n";
+                   << advantages(p.tune.best.objectives, bo, pareto_objectives(d)) << ".\n";
                 w.json["dominated_by"] = pair_key(p, inductors, diodes);
                 break;
             }

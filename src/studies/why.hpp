@@ -7,6 +7,7 @@
 
 #include <nlohmann/json.hpp>
 #include <string>
+#include <vector>
 
 namespace coilsieve::studies {
 
@@ -15,6 +16,12 @@ struct WhyReport {
     std::string text;    // plain sentences, one per line
     nlohmann::json json;
 };
+
+// Where `better` beats `worse`, in words, on the given objectives only (e.g. the Pareto axes when
+// `better` dominates `worse`); "a lower weighted score" when on none.
+std::string advantages(const optimisation::Objectives& better,
+                       const optimisation::Objectives& worse,
+                       const std::vector<design::Objective>& objectives);
 
 // `main` is the ranking the question is about (run with `options`). Throws RankError for an id
 // that is neither an inductor nor a diode of the catalog.

@@ -176,3 +176,20 @@ TEST_F(CliTest, ForeignDatabaseIsAnErrorNotACrash) {
     EXPECT_TRUE(std::regex_search(r.err, std::regex("foreign\\.db.*not a coilsieve catalog")))
         << r.err;
 }
+
+TEST_F(CliTest, ImportSummaryCountsInWords) {
+    std::ifstream in(fixture("inductors_small.csv"));
+    std::string header, row;
+    std::getline(in, header);
+    std::getline(in, row);
+    const auto one = file("one.csv", header + "\n" + row + "\n");
+    Outcome r = run("parts import '" + one.string() + "' --kind inductor --source one");
+    ASSERT_EQ(r.code, 0) << r.err;
+    EXPECT_NE(r.out.find("imported 1 inductor of 1 row into"), std::string::npos) << r.out;
+    r = run("parts import '" + fixture("inductors_small.csv") +
+            "' --kind inductor --source small --dry-run");
+    ASSERT_EQ(r.code, 0) << r.err;
+    EXPECT_TRUE(
+        std::regex_search(r.out, std::regex("would import [0-9]+ inductors of [0-9]+ rows")))
+        << r.out;
+}

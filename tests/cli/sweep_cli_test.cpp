@@ -3,9 +3,12 @@
 // winner must meet at each load current, and bad --vary input.
 #include "cli_run.hpp"
 
+#include <algorithm>
 #include <cmath>
 #include <nlohmann/json.hpp>
 #include <set>
+#include <sstream>
+#include <vector>
 
 using coilsieve::testing_support::CliTest;
 using coilsieve::testing_support::Outcome;
@@ -107,10 +110,71 @@ TEST_F(SweepCli, BadVaryIsAUsageErrorNamingTheField) {
     Outcome r = run("sweep '" + design_ + "' --source hand --vary load.colour=1..2:3");
     EXPECT_EQ(r.code, 2);
     EXPECT_NE(r.err.find("load.colour"), std::string::npos) << r.err;
+    for (const std::string word : {"load.type", "control.mode", "name"}) {
+        r = run("sweep '" + design_ + "' --source hand --vary " + word + "=1..2:2");
+        EXPECT_EQ(r.code, 2) << word;
+        EXPECT_NE(r.err.find("no numeric field \"" + word + "\""), std::string::npos) << r.err;
+    }
     r = run("sweep '" + design_ + "' --source hand --vary load.current=3V..5V:3");
     EXPECT_EQ(r.code, 2);
     EXPECT_NE(r.err.find("current"), std::string::npos) << r.err;
     r = run("sweep '" + design_ + "' --source hand --vary load.current=0.3A..0.5A:1");
     EXPECT_EQ(r.code, 2);
     EXPECT_NE(r.err.find("STEPS"), std::string::npos) << r.err;
+}
+
+TEST_F(SweepCli, CsvIsSiNumbersWithTheUnitInTheColumnName) {
+    const Outcome r =
+        run("sweep '" + design_ + "' --source hand --vary load.current=0.35A..1.05A:3 --csv");
+    ASSERT_EQ(r.code, 0) << r.err;
+    const auto ls = coilsieve::testing_support::lines(r.out);
+    ASSERT_EQ(ls.size(), 4u) << r.out;
+    auto cells = [](std::string line) {
+        if (!line.empty() && line.back() == '\r') line.pop_back(); // RFC 4180 line ends
+        std::vector<std::string> v;
+        std::stringstream in(line);
+        for (std::string c; std::getline(in, c, ',');) v.push_back(c);
+        return v;
+    };
+    const auto header = cells(ls[0]);
+    auto column = [&](const std::string& name) {
+        const auto it = std::find(header.begin(), header.end(), name);
+        EXPECT_NE(it, header.end()) << name << " in " << ls[0];
+        return static_cast<std::size_t>(it - header.begin());
+    };
+    const std::size_t value = column("load.current_A"), loss = column("loss_W"),
+                      eff = column("efficiency"), size = column("size_m3"),
+                      changed = column("changed");
+    const double expected[] = {0.35, 0.70, 1.05};
+    for (std::size_t i = 1; i < ls.size(); ++i) {
+        const auto row = cells(ls[i]);
+        ASSERT_EQ(row.size(), header.size()) << ls[i];
+        for (const std::size_t c : {value, loss, eff, size}) {
+            std::size_t used = 0;
+            EXPECT_NO_THROW((void)std::stod(row[c], &used)) << row[c];
+            EXPECT_EQ(used, row[c].size()) << "not a plain number: " << row[c];
+        }
+        EXPECT_NEAR(std::stod(row[value]), expected[i - 1], 1e-12);
+        EXPECT_GT(std::stod(row[loss]), 0.0);
+        EXPECT_LT(std::stod(row[eff]), 1.0);   // a fraction, not a percentage
+        EXPECT_LT(std::stod(row[size]), 1e-3); // m³: a few hundred mm³
+        EXPECT_TRUE(row[changed] == "0" || row[changed] == "1") << row[changed];
+    }
+}
+
+TEST_F(SweepCli, AWholeNumberFieldTakesWholeStepsOnly) {
+    Outcome r = run("sweep '" + design_ + "' --source hand --vary load.count=3.5..4.5:2");
+    EXPECT_EQ(r.code, 2) << r.out;
+    EXPECT_NE(r.err.find("load.count"), std::string::npos) << r.err;
+    EXPECT_NE(r.err.find("whole number"), std::string::npos) << r.err;
+    EXPECT_NE(r.err.find("step 1"), std::string::npos) << r.err;
+    r = run("sweep '" + design_ + "' --source hand --vary load.count=3..4:3"); // 3, 3.5, 4
+    EXPECT_EQ(r.code, 2) << r.out;
+    EXPECT_NE(r.err.find("step 2"), std::string::npos) << r.err;
+    r = run("sweep '" + design_ + "' --source hand --vary load.count=3..4:2 --json");
+    ASSERT_EQ(r.code, 0) << r.err;
+    const json j = json::parse(r.out);
+    ASSERT_EQ(j["steps"].size(), 2u);
+    EXPECT_EQ(j["steps"][0]["value"].get<double>(), 3.0);
+    EXPECT_EQ(j["steps"][1]["value"].get<double>(), 4.0);
 }

@@ -421,3 +421,20 @@ TEST(DesignFile, FileErrorsNameTheFile) {
             << e.what();
     }
 }
+
+TEST(DesignFile, AnEmptyWeightsObjectMeansTheDefaults) {
+    json j = lamp_json();
+    j["weights"] = json::object();
+    const Design d = read_design(j, "lamp.json");
+    const Weights defaults; // design.hpp
+    EXPECT_EQ(d.weights.loss, defaults.loss);
+    EXPECT_EQ(d.weights.size, defaults.size);
+    EXPECT_EQ(d.weights.ripple, defaults.ripple);
+    EXPECT_EQ(d.weights.margin, defaults.margin);
+    EXPECT_EQ(d.weights.cost, defaults.cost);
+    // A named weight still makes the others zero.
+    j["weights"] = {{"size", 2}};
+    const Design s = read_design(j, "lamp.json");
+    EXPECT_EQ(s.weights.size, 2.0);
+    EXPECT_EQ(s.weights.loss, 0.0);
+}

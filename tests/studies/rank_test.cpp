@@ -323,3 +323,26 @@ TEST(Rank, ListedDiodeVfIsAtTheTargetCurrent) {
     ASSERT_FALSE(r.top.empty());
     for (const auto& p : r.top) EXPECT_NEAR(p.diode_vf, 0.3843, 0.0005);
 }
+
+TEST(Rank, WhyNamesOnlyTheObjectivesInUse) {
+    optimisation::Objectives better, worse;
+    better.loss = 0.5;
+    worse.loss = 0.8;
+    better.size = 1e-7;
+    worse.size = 2e-7;
+    better.ripple = 0.3; // worse on ripple: never an advantage
+    worse.ripple = 0.1;
+    better.cost = 0.4;
+    worse.cost = 0.6;
+    using design::Objective;
+    // The default Pareto axes without a cost weight: loss and size.
+    std::string s = advantages(better, worse, {Objective::loss, Objective::size});
+    EXPECT_NE(s.find("lower loss"), std::string::npos) << s;
+    EXPECT_NE(s.find("smaller"), std::string::npos) << s;
+    EXPECT_EQ(s.find("cheaper"), std::string::npos) << s;
+    EXPECT_EQ(s.find("ripple"), std::string::npos) << s;
+    s = advantages(better, worse, {Objective::size, Objective::cost});
+    EXPECT_EQ(s.find("loss"), std::string::npos) << s;
+    EXPECT_NE(s.find("cheaper (0.4"), std::string::npos) << s;
+    EXPECT_EQ(advantages(better, worse, {Objective::ripple}), "a lower weighted score");
+}
