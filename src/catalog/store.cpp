@@ -379,6 +379,39 @@ Store::Store(const std::filesystem::path& path, OpenOptions options)
     }
 }
 
+std::string explain_catalog_failure(const sqlite::SqliteError& e,
+                                    const std::filesystem::path& path) {
+    std::string said = e.what();
+    if (const auto in = said.find(" (in: "); in != std::string::npos) said.resize(in);
+    std::string advice;
+    switch (e.code() & 0xff) { // the primary result code
+    case 5:                    // SQLITE_BUSY
+    case 6:                    // SQLITE_LOCKED
+        advice = "another program is writing it; try again when it is done";
+        break;
+    case 8: // SQLITE_READONLY
+        advice = "it cannot be written: the file or its folder is read-only (SQLite also writes " +
+                 path.filename().string() + "-wal and " + path.filename().string() +
+                 "-shm beside it); make them writable or give a writable copy with --db";
+        break;
+    case 11: // SQLITE_CORRUPT
+    case 26: // SQLITE_NOTADB
+        advice = "the file is damaged; restore it from a backup, or give a new path with --db "
+                 "(a new catalog starts with the starter parts; import your lists again)";
+        break;
+    case 13: // SQLITE_FULL
+        advice = "the disk is full; nothing was changed";
+        break;
+    case 14: // SQLITE_CANTOPEN
+        advice =
+            "it cannot be opened; check the path and its permissions, or give another with --db";
+        break;
+    default:
+        advice = "the operation failed and nothing was changed";
+    }
+    return "catalog " + path.string() + ": " + advice + " (" + said + ")";
+}
+
 void Store::open_checks() {
     const std::int64_t app = db_.scalar_int("PRAGMA application_id");
     const std::int64_t version = db_.scalar_int("PRAGMA user_version");

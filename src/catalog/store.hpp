@@ -115,6 +115,11 @@ struct DiodeQuery {
     std::optional<int> limit{};
 };
 
+// What an SQLite failure on the catalog at `path` means for its user: the file named, the likely
+// cause and what to do, and SQLite's own words without the SQL text.
+std::string explain_catalog_failure(const sqlite::SqliteError& e,
+                                    const std::filesystem::path& path);
+
 struct OpenOptions {
     bool load_starter = true; // fill a new database from the embedded starter catalog
 };

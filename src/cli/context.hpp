@@ -41,12 +41,14 @@ public:
     std::ostream& err() { return err_; }
     const GlobalOptions& global() const { return global_; }
 
+    // The catalog's file: --db, else COILSIEVE_DB or the XDG default.
+    std::filesystem::path db_path() const {
+        return global_.db.empty() ? catalog::Store::default_path()
+                                  : std::filesystem::path(global_.db);
+    }
     // The catalog, opened (created and filled if new) on first call.
     catalog::Store& store() {
-        if (!store_) {
-            store_.emplace(global_.db.empty() ? catalog::Store::default_path()
-                                              : std::filesystem::path(global_.db));
-        }
+        if (!store_) store_.emplace(db_path());
         return *store_;
     }
 

@@ -74,6 +74,10 @@ int main(int argc, char** argv) {
     } catch (const UsageError& e) {
         std::cerr << "error: " << e.what() << "\n";
         return exit_usage;
+    } catch (const coilsieve::catalog::sqlite::SqliteError& e) {
+        std::cerr << "error: " << coilsieve::catalog::explain_catalog_failure(e, ctx.db_path())
+                  << "\n";
+        return exit_error;
     } catch (const std::exception& e) {
         std::cerr << "error: " << e.what() << "\n";
         return exit_error;

@@ -203,3 +203,15 @@ TEST_F(RankCli, ANetlistThatCannotBeWrittenSaysWhatToCheck) {
     EXPECT_TRUE(has(r.err, "x.cir")) << r.err;
     EXPECT_TRUE(has(r.err, "check that the folder exists and is writable")) << r.err;
 }
+
+// A damaged catalog: the error names the file and what to do, not the SQL that met the damage.
+TEST_F(RankCli, ADamagedCatalogIsNamedWithWhatToDo) {
+    ASSERT_EQ(run("parts list inductors --limit 1").code, 0); // the starter catalog, checkpointed
+    std::filesystem::resize_file(db(), 200000);
+    const Outcome r = run("parts list inductors");
+    EXPECT_EQ(r.code, 1) << r.out;
+    EXPECT_TRUE(has(r.err, "catalog " + db().string())) << r.err;
+    EXPECT_TRUE(has(r.err, "damaged")) << r.err;
+    EXPECT_TRUE(has(r.err, "--db")) << r.err;
+    EXPECT_FALSE(has(r.err, "SELECT")) << r.err;
+}
