@@ -92,6 +92,12 @@ int run_check(const CheckOptions& o, Context& ctx) {
 
     report::CheckReportInput in{d, l, diode, s, e, design::switch_default_notes(d.sw), {}, {}};
 
+    if (!(l.length > 0.0 && l.width > 0.0 && l.height > 0.0))
+        in.notes.push_back("Inductor \"" + l.id +
+                           "\" has no body size in the catalog: its size and height are "
+                           "unknown, its core loss is taken as zero, and a ranking leaves it "
+                           "out (body_size).");
+
     const bool need_models = o.simulate || !o.waveform.empty() || !o.netlist.empty();
     if (need_models) {
         const auto lm = parts::make_model(l);

@@ -215,3 +215,16 @@ TEST_F(RankCli, ADamagedCatalogIsNamedWithWhatToDo) {
     EXPECT_TRUE(has(r.err, "--db")) << r.err;
     EXPECT_FALSE(has(r.err, "SELECT")) << r.err;
 }
+
+// A part list without body sizes: `check` says what that means, and a ranking leaves it out.
+TEST_F(RankCli, AnInductorWithoutABodySizeIsFlaggedAndLeftOut) {
+    const auto l = file("nodim.csv", "id,inductance (uH),dcr_typ,isat\nNO-SIZE,100,665m,2.12\n");
+    ASSERT_EQ(run("parts import '" + l.string() + "' --kind inductor --source nodim").code, 0);
+    const Outcome c = run("check " + example("reading-lamp") +
+                          " --inductor NO-SIZE --diode hand:GEN-D-SCH-60V-2A-SOD-123F");
+    EXPECT_TRUE(has(c.out, "has no body size")) << c.out << c.err;
+    const Outcome r = run("rank " + example("reading-lamp") +
+                          " --source hand --source nodim --no-save --why NO-SIZE");
+    EXPECT_TRUE(has(r.out, "body_size")) << r.out;
+    EXPECT_TRUE(has(r.out, "screened out")) << r.out;
+}
