@@ -252,13 +252,15 @@ int run_sweep(const SweepOptions& o, Context& ctx) {
     }
     apply_overrides(base, ro);
     const SweepSpec spec = parse_sweep(o.vary, base);
-    const EffectiveOptions eo = merge_options(EffectiveOptions{}, ro, base);
+    merge_options(EffectiveOptions{}, ro, base); // refuse bad options before the first step
 
     std::vector<Step> steps;
     std::string previous;
     for (int i = 0; i < spec.steps; ++i) {
         const double v = step_value(spec, i);
         const design::Design d = with_value(base, spec, v);
+        // Per step: a --band given as a share of the target current follows the step's current.
+        const EffectiveOptions eo = merge_options(EffectiveOptions{}, ro, d);
         RankSession s = run_ranking(d, eo, ro.threads, ctx, true);
         std::string key = s.result.top.empty()
                               ? std::string()

@@ -178,3 +178,19 @@ TEST_F(SweepCli, AWholeNumberFieldTakesWholeStepsOnly) {
     EXPECT_EQ(j["steps"][0]["value"].get<double>(), 3.0);
     EXPECT_EQ(j["steps"][1]["value"].get<double>(), 4.0);
 }
+
+// A fixed band given as a share of the target current is that share at every step of a current
+// sweep (15 % of 0.35 A, then of 0.7 A), not the first step's amperes carried along.
+TEST_F(SweepCli, ABandShareFollowsEachStepsCurrent) {
+    const Outcome r = run("sweep '" + design_ +
+                          "' --source hand --band 15% --vary load.current=0.35A..0.7A:2 --json");
+    ASSERT_EQ(r.code, 0) << r.err;
+    const auto j = json::parse(r.out);
+    ASSERT_EQ(j["steps"].size(), 2u);
+    const double currents[] = {0.35, 0.7};
+    for (std::size_t i = 0; i < 2; ++i) {
+        const auto& best = j["steps"][i]["best"];
+        ASSERT_FALSE(best.is_null()) << r.out;
+        EXPECT_NEAR(best["setting"]["band"].get<double>(), 0.15 * currents[i], 1e-12);
+    }
+}
