@@ -204,6 +204,10 @@ public:
             try {
                 x = units::parse(s, d);
             } catch (const units::ParseError& e) {
+                // A temperature below 0 K is a temperature, wrong: no guess at another dimension.
+                if (std::string_view(e.what()).find("below absolute zero") !=
+                    std::string_view::npos)
+                    fail(path, e.what());
                 std::vector<std::string> matches;
                 for (Dimension other : all_dimensions) {
                     if (other != d && parses_as(s, other))

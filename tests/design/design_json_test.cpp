@@ -304,6 +304,7 @@ TEST(DesignFile, MalformedFieldsAreNamed) {
         // Beyond the widest common temperature grade (and, at -250 °C, below where copper's
         // linear tempco would make the winding's resistance negative: IEC 60028, -234.5 °C).
         {[](json& j) { j["ambient"]["max"] = "-250C"; }, "ambient.max", "-55 °C to 150 °C"},
+        {[](json& j) { j["ambient"]["max"] = "-274C"; }, "ambient.max", "below absolute zero"},
         {[](json& j) { j["ambient"]["max"] = "175C"; }, "ambient.max", "-55 °C to 150 °C"},
         {[](json& j) { j["ambient"]["min"] = "-60C"; }, "ambient.min", "-55 °C to 150 °C"},
         {[](json& j) { j["limits"]["f_sw_min"] = "2MHz"; }, "limits.f_sw_min", "f_sw_max"},
