@@ -14,25 +14,17 @@ using coilsieve::testing_support::Outcome;
 
 namespace {
 
-// The header and the rows with these ids from a starter-catalog CSV.
-std::string rows_of(const std::string& file, const std::set<std::string>& ids) {
-    std::ifstream in(std::string(COILSIEVE_SOURCE_DIR) + "/data/starter/" + file);
-    std::string line, out;
-    std::getline(in, line);
-    out = line + "\n";
-    while (std::getline(in, line))
-        if (ids.count(line.substr(0, line.find(','))) != 0) out += line + "\n";
-    return out;
-}
-
 class RankCli : public CliTest {
 protected:
     void SetUp() override {
         CliTest::SetUp();
         const auto l = file(
-            "l.csv", rows_of("inductors.csv", {"GEN-L-MCP-6.6x6.4x3-100u", "GEN-L-SDF-8x8x4-47u"}));
-        const auto d = file("d.csv", rows_of("diodes.csv", {"GEN-D-SCH-60V-2A-SOD-123F",
-                                                            "GEN-D-SCH-100V-2A-SOD-123F"}));
+            "l.csv", coilsieve::testing_support::starter_rows(
+                         "inductors.csv", {"GEN-L-MCP-6.6x6.4x3-100u", "GEN-L-SDF-8x8x4-47u"}));
+        const auto d =
+            file("d.csv",
+                 coilsieve::testing_support::starter_rows(
+                     "diodes.csv", {"GEN-D-SCH-60V-2A-SOD-123F", "GEN-D-SCH-100V-2A-SOD-123F"}));
         ASSERT_EQ(run("parts import '" + l.string() + "' --kind inductor --source hand").code, 0);
         ASSERT_EQ(run("parts import '" + d.string() + "' --kind diode --source hand").code, 0);
     }

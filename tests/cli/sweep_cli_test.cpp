@@ -16,28 +16,19 @@ using json = nlohmann::json;
 
 namespace {
 
-// The header and the rows with these ids from a starter-catalog CSV.
-std::string rows_of(const std::string& file, const std::set<std::string>& ids) {
-    std::ifstream in(std::string(COILSIEVE_SOURCE_DIR) + "/data/starter/" + file);
-    std::string line, out;
-    std::getline(in, line);
-    out = line + "\n";
-    while (std::getline(in, line))
-        if (ids.count(line.substr(0, line.find(','))) != 0) out += line + "\n";
-    return out;
-}
-
 class SweepCli : public CliTest {
 protected:
     void SetUp() override {
         CliTest::SetUp();
         // Three inductors of different Isat and RMS ratings, three diodes.
         const auto l =
-            file("l.csv", rows_of("inductors.csv", {"GEN-L-MCP-6.6x6.4x3-100u",
-                                                    "GEN-L-SDF-8x8x4-47u", "GEN-L-MCP-4x4x2-10u"}));
-        const auto d = file("d.csv", rows_of("diodes.csv", {"GEN-D-SCH-60V-2A-SOD-123F",
-                                                            "GEN-D-SCH-40V-1A-SOD-123F",
-                                                            "GEN-D-SCH-100V-2A-SOD-123F"}));
+            file("l.csv", coilsieve::testing_support::starter_rows(
+                              "inductors.csv", {"GEN-L-MCP-6.6x6.4x3-100u", "GEN-L-SDF-8x8x4-47u",
+                                                "GEN-L-MCP-4x4x2-10u"}));
+        const auto d = file(
+            "d.csv", coilsieve::testing_support::starter_rows(
+                         "diodes.csv", {"GEN-D-SCH-60V-2A-SOD-123F", "GEN-D-SCH-40V-1A-SOD-123F",
+                                        "GEN-D-SCH-100V-2A-SOD-123F"}));
         ASSERT_EQ(run("parts import '" + l.string() + "' --kind inductor --source hand").code, 0);
         ASSERT_EQ(run("parts import '" + d.string() + "' --kind diode --source hand").code, 0);
         design_ = std::string(COILSIEVE_SOURCE_DIR) + "/data/examples/reading-lamp.json";

@@ -4,6 +4,7 @@
 #include <filesystem>
 #include <fstream>
 #include <gtest/gtest.h>
+#include <set>
 #include <sstream>
 #include <string>
 #include <sys/wait.h>
@@ -13,6 +14,17 @@
 namespace coilsieve::testing_support {
 
 namespace fs = std::filesystem;
+
+// The header and the rows with these ids from a starter-catalog CSV (data/starter/FILE).
+inline std::string starter_rows(const std::string& file, const std::set<std::string>& ids) {
+    std::ifstream in(std::string(COILSIEVE_SOURCE_DIR) + "/data/starter/" + file);
+    std::string line, out;
+    std::getline(in, line);
+    out = line + "\n";
+    while (std::getline(in, line))
+        if (ids.count(line.substr(0, line.find(','))) != 0) out += line + "\n";
+    return out;
+}
 
 struct Outcome {
     int code = -1;
