@@ -1,7 +1,8 @@
 #pragma once
 // The figures a tuned pair is judged on, and the single weighted score the tuner minimises.
 // Normalisation uses fixed, design-derived scales (never the spread of the evaluated pairs), so a
-// pair's score does not depend on which other pairs were evaluated or pruned.
+// pair's score does not depend on which other pairs were evaluated or pruned; only the charge for
+// a missing price comes from the catalog searched, as a whole.
 
 #include "converter/evaluate.hpp"
 #include "design/design.hpp"
