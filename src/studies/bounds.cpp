@@ -279,6 +279,19 @@ public:
                     if (t_least > 0.0 && std::isfinite(t_least))
                         f_ub = std::min(f_ub, 1.0 / (l_lo * t_least));
                 }
+                // In CCM the duty follows from flux balance between the ramps' voltage extremes
+                // (the delay lengthens both ramps, not the balance); as under PWM below, the
+                // least of the triangle's ripple at the range's ends stands for its least.
+                if (p.capacitor && von_lb > 0.0 && voff_lb > 0.0 && std::isfinite(f_ub)) {
+                    const double d_lo = voff_lb / (von_ub + voff_lb);
+                    const double d_hi = voff_ub / (von_lb + voff_ub);
+                    if (d_lo > 0.0 && d_hi < 1.0)
+                        triangle_share =
+                            (d_hi - d_lo <= duty_ends_width ? duty_ends_slack : ramp_shape_slack) *
+                            std::min(
+                                converter::triangle_load_ripple(k.r, p.cap, p.esr, f_ub, d_lo),
+                                converter::triangle_load_ripple(k.r, p.cap, p.esr, f_ub, d_hi));
+                }
                 // The mean sits near (peak + valley)/2 = I + t_d·(Von − Voff)/(2L).
                 const double skew_lo = td * (von_lb - voff_ub) / 2.0;
                 const double skew_hi = td * (von_ub - voff_lb) / 2.0;
@@ -375,8 +388,10 @@ public:
             if (lim.f_sw_max && f_lb > *lim.f_sw_max) close("f_sw_max");
             if (f_ub < lim.f_sw_min) close("f_sw_min");
             // Load ripple with a capacitor, as the engine takes it (converter/steady_state.cpp):
-            // - hysteretic, or PWM in DCM: share(f)·ΔI, the divider's share at the switching
-            //   frequency, and share falls with f, so share(f_ub)·ΔI;
+            // - PWM in DCM: share(f)·ΔI, the divider's share at the switching frequency, and
+            //   share falls with f, so share(f_ub)·ΔI;
+            // - hysteretic: the ideal triangle's ripple through the divider in CCM, share(f)·ΔI
+            //   in DCM: the smaller of the two where CCM is not certain;
             // - PWM in CCM: the two-state solution. Any waveform's p-p is at least π/2 times its
             //   fundamental (the square wave is the extreme), and a triangle's fundamental is at
             //   least ΔI/π, so p-p >= share(f_ub)·ΔI/2; tighter, the ideal triangle's own ripple
@@ -386,7 +401,9 @@ public:
             if (p.capacitor) {
                 const double share = converter::load_ripple_share(k.r, p.cap, p.esr, f_ub);
                 const double ccm = std::max(0.5 * share, ramp_shape_slack * triangle_share);
-                if (hysteretic(c_) || dcm_certain) load_share = share;
+                if (hysteretic(c_)) // its allowance is in triangle_share
+                    load_share = valley_lb > 0.0 ? triangle_share : std::min(share, triangle_share);
+                else if (dcm_certain) load_share = share;
                 else load_share = valley_lb > 0.0 ? ccm : std::min(share, ccm);
             }
             const double load_di = load_share * di_lb;

@@ -43,6 +43,14 @@ namespace coilsieve::studies {
 // pair is infeasible.
 constexpr double ramp_shape_slack = 0.9;
 
+// Hysteretic control with a capacitor in CCM: the engine takes the ideal triangle's p-p through
+// the divider at its own frequency and duty, so the bound needs no allowance for curved ramps,
+// only for standing the least of the duty range's two ends for its least: within 0.5 % for a
+// range up to 0.1 wide (LoadRipple.TriangleOverANarrowDutyRangeIsLeastNearAnEnd); a wider range
+// takes ramp_shape_slack.
+constexpr double duty_ends_slack = 0.995;
+constexpr double duty_ends_width = 0.1;
+
 // One stretch of the setting range with the inductor's bounds over it (feasible stretches only).
 struct SettingStretch {
     double x1 = 0.0, x2 = 0.0; // the stretch of the free variable (A or Hz)

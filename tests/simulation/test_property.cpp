@@ -160,7 +160,7 @@ std::string mismatch(const converter::CornerResult& e, const converter::CornerRe
 
 TEST(SimulationProperty, EngineAgreesWithSimulatorOnRandomDesigns) {
     Draw r(20240611);
-    int compared = 0, skipped = 0, load_ripple_compared = 0;
+    int compared = 0, skipped = 0, load_ripple_compared = 0, hysteretic_compared = 0;
     for (int n = 0; n < 1000; ++n) {
         const Circuit k = random_circuit(r);
         const testing::DesignCase x =
@@ -191,10 +191,22 @@ TEST(SimulationProperty, EngineAgreesWithSimulatorOnRandomDesigns) {
             EXPECT_NEAR(e.load_ripple_pp, s.steady.load_ripple_pp, 0.015 * s.steady.load_ripple_pp)
                 << x.name;
         }
+        // Hysteretic in CCM with a capacitor: the ideal triangle's p-p through the divider, for
+        // the engine's near-straight ramps (the divider's share alone overstated it by up to 27 %
+        // against ngspice).
+        if (k.mode == design::ControlMode::hysteretic && k.has_capacitor() && !e.dcm &&
+            !s.steady.dcm) {
+            ++hysteretic_compared;
+            // The ramps' curvature is what remains: over these 101 cases the engine's figure is
+            // 0.994 to 1.027 of the simulator's.
+            EXPECT_NEAR(e.load_ripple_pp, s.steady.load_ripple_pp, 0.03 * s.steady.load_ripple_pp)
+                << x.name;
+        }
     }
     // The generator draws valid designs: nearly all must evaluate.
     EXPECT_GT(compared, 900) << skipped << " skipped";
     EXPECT_GT(load_ripple_compared, 50);
+    EXPECT_GT(hysteretic_compared, 50);
 }
 
 } // namespace
