@@ -108,9 +108,9 @@ PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
 
     PairEvaluation e;
     e.corners.reserve(corners.size());
-    // One reverse-voltage check, up to nine per corner, efficiency, heights and footprint: no
+    // One reverse-voltage check, up to ten per corner, efficiency, heights and footprint: no
     // regrowth on the optimiser's hot path.
-    e.checks.reserve(1 + 9 * corners.size() + 4);
+    e.checks.reserve(1 + 10 * corners.size() + 4);
     for (const Corner& c : corners)
         e.corners.push_back(evaluate_corner(d, lm, dm, c, corner_setting(d, c, s)));
 
@@ -171,6 +171,16 @@ PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
             check.upper("f_sw_max", cn, r.f_sw, *lim.f_sw_max, [&] {
                 const auto [v, b] = apart(r.f_sw, *lim.f_sw_max, Dimension::frequency);
                 return "switching frequency " + v + " is above the maximum " + b + at(cn);
+            });
+        // Above its self-resonant frequency the part is a capacitor, not an inductor: a floor for
+        // the switching frequency, not a design margin (the ripple's harmonics reach higher).
+        if (l.srf && *l.srf > 0.0)
+            check.upper("srf", cn, r.f_sw, *l.srf, [&] {
+                const auto [v, b] = apart(r.f_sw, *l.srf, Dimension::frequency);
+                return "switching frequency " + v +
+                       " is above the inductor's self-resonant "
+                       "frequency " +
+                       b + ", where it stops being an inductor" + at(cn);
             });
         check.upper("isat", cn, r.il_peak, isat_bound, [&] {
             const auto [v, b] = apart(r.il_peak, isat_bound, Dimension::current);

@@ -268,4 +268,28 @@ TEST(PairMessages, ValueAndLimitAreToldApart) {
     EXPECT_NE(value, limit) << m;
 }
 
+// Above its self-resonant frequency a part is a capacitor, not an inductor (a physical floor):
+// a switching frequency above the catalog's SRF is a broken limit, one below it is not.
+TEST(PairLimits, SwitchingAboveTheSelfResonantFrequencyIsBroken) {
+    const auto d = led_design();
+    auto l = inductor();
+    const auto di = diode();
+    Setting s;
+    s.band = 0.1;
+    auto broken = [&](const parts::Inductor& part) {
+        const auto e = evaluate_pair(d, part, di, s);
+        return std::any_of(e.violations.begin(), e.violations.end(),
+                           [](const LimitCheck& c) { return c.limit == "srf"; });
+    };
+    l.srf.reset();
+    double f_top = 0.0;
+    for (const auto& c : evaluate_pair(d, l, di, s).corners) f_top = std::max(f_top, c.f_sw);
+    ASSERT_GT(f_top, 0.0);
+    EXPECT_FALSE(broken(l)); // no SRF given: nothing to check
+    l.srf = 1.01 * f_top;
+    EXPECT_FALSE(broken(l));
+    l.srf = 0.99 * f_top;
+    EXPECT_TRUE(broken(l));
+}
+
 } // namespace coilsieve::converter
