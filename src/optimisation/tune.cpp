@@ -190,9 +190,18 @@ std::vector<TunedPoint> walk_hint(const SettingRange& range, const converter::Se
 PrintedValue printed_value(const SettingRange& range, const converter::Setting& base,
                            const PairEvaluator& evaluate, double value) {
     if (!(value > 0.0) || !std::isfinite(value)) return {value, 0};
-    for (int digits = 4; digits <= 6; ++digits) {
+    auto rounded = [value](int digits) {
         const double step = std::pow(10.0, std::floor(std::log10(value)) - (digits - 1));
-        const double nearest = std::round(value / step) * step;
+        return std::round(value / step) * step;
+    };
+    if (!(range.hi > range.lo)) { // a value given, not tuned: as few digits as show it
+        for (int digits = 3; digits <= 8; ++digits)
+            if (std::abs(rounded(digits) - value) <= 1e-9 * value) return {value, digits};
+        return {value, 0};
+    }
+    for (int digits = 4; digits <= 6; ++digits) {
+        const double nearest = rounded(digits);
+        const double step = std::pow(10.0, std::floor(std::log10(value)) - (digits - 1));
         const double other = nearest >= value ? nearest - step : nearest + step;
         for (const double v : {nearest, other}) {
             if (v < range.lo || v > range.hi) continue;

@@ -92,7 +92,8 @@ std::vector<TunedPoint> walk_hint(const SettingRange& range, const converter::Se
 // A tuned value as a person can type it back. A tuned optimum usually sits on a limit, so the
 // value rounded for print can break it (a band shown as 46.9 mA where 46.94 mA was tuned puts the
 // frequency above its maximum). The value rounded to `digits` significant digits, nearest first
-// and then the other way, for digits = 4, 5, 6, is evaluated until one meets every limit.
+// and then the other way, for digits = 4, 5, 6, is evaluated until one meets every limit. A fixed
+// range (a value the user gave) is printed as given, with as few digits as show it.
 struct PrintedValue {
     double value = 0.0;
     int digits = 0; // significant digits that show `value` exactly; 0: none found, print in full

@@ -679,7 +679,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         p.printed = {value, 0};
         if (const auto& m = dprep[dprep_of[p.diode]].model; m && ctx.target > 0.0)
             p.diode_vf = m->vf(ctx.target, units::celsius(25.0));
-        if (!p.tune.feasible || !(res.range.hi > res.range.lo)) return;
+        if (!p.tune.feasible) return;
         const auto ev = evaluate(d, inductors[p.inductor], dprep[dprep_of[p.diode]].prepared);
         p.printed = optimisation::printed_value(res.range, tuned, ev, value);
     };

@@ -292,6 +292,14 @@ TEST(PrintedValue, RoundsToTheFewestDigitsThatStillMeetTheLimits) {
     p = printed_value(range, base, window(1.0, 2.0), tuned);
     EXPECT_EQ(p.digits, 0);
     EXPECT_EQ(p.value, tuned);
+    // A value given, not tuned (a fixed range): printed as given, with as few digits as show it.
+    p = printed_value(SettingRange{Variable::band, 0.05, 0.05, false}, base, window(1.0, 2.0),
+                      0.05);
+    EXPECT_EQ(p.digits, 3);
+    EXPECT_EQ(p.value, 0.05);
+    p = printed_value(SettingRange{Variable::band, 0.04694, 0.04694, false}, base, window(1.0, 2.0),
+                      0.04694);
+    EXPECT_EQ(p.digits, 4);
     // Never outside the range it was tuned in.
     range.hi = 0.04693775;
     p = printed_value(range, base, window(tuned - 1e-12, 1.0), tuned);
