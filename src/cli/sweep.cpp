@@ -94,14 +94,6 @@ std::string csv_unit(u::Dimension d) {
     }
 }
 
-std::string csv_number(double v) {
-    if (!std::isfinite(v)) return "";
-    std::ostringstream os;
-    os.precision(10);
-    os << v;
-    return os.str();
-}
-
 struct Step {
     double value; // SI
     RankSession s;
@@ -128,7 +120,7 @@ std::string sweep_csv(const std::string& field, u::Dimension dim, design::Contro
                      {"score"},
                      {"changed"}});
     for (const auto& st : steps) {
-        const std::string value = csv_number(st.value);
+        const std::string value = report::csv_number(st.value);
         const std::string changed = st.changed ? "1" : "0";
         if (st.s.result.top.empty()) {
             t.add_row({value, "", "", "", "", "", "", "", "", "", "", "", "", changed});
@@ -140,10 +132,11 @@ std::string sweep_csv(const std::string& field, u::Dimension dim, design::Contro
         const auto& l = st.s.inductors[p.inductor];
         const auto& d = st.s.diodes[p.diode];
         t.add_row({value, l.source, l.id, d.source, d.id,
-                   csv_number(band ? b.setting.band : b.setting.frequency), csv_number(ob.loss),
-                   csv_number(ob.efficiency), csv_number(ob.ripple), csv_number(ob.size),
-                   csv_number(ob.margin), ob.cost ? csv_number(*ob.cost) : "", csv_number(b.score),
-                   changed});
+                   report::csv_number(band ? b.setting.band : b.setting.frequency),
+                   report::csv_number(ob.loss), report::csv_number(ob.efficiency),
+                   report::csv_number(ob.ripple), report::csv_number(ob.size),
+                   report::csv_number(ob.margin), ob.cost ? report::csv_number(*ob.cost) : "",
+                   report::csv_number(b.score), changed});
     }
     return t.to_csv();
 }

@@ -224,13 +224,7 @@ std::string rank_csv(const RankReportInput& in) {
              {"f_sw_max_Hz"},
              {"t_hottest_K"},
              {"binding_limit"}});
-    auto num = [](double v) {
-        if (!std::isfinite(v)) return std::string();
-        std::ostringstream os;
-        os.precision(10);
-        os << v;
-        return os.str();
-    };
+    const auto num = csv_number;
     for (const auto& p : r.top) {
         const auto& l = in.inductors[p.inductor];
         const auto& d = in.diodes[p.diode];

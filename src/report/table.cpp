@@ -3,6 +3,8 @@
 #include "report/table.hpp"
 
 #include <algorithm>
+#include <cmath>
+#include <sstream>
 #include <stdexcept>
 #include <utility>
 
@@ -156,6 +158,14 @@ std::string csv_line(const std::vector<std::string>& fields) {
     }
     out += "\r\n";
     return out;
+}
+
+std::string csv_number(double v) {
+    if (!std::isfinite(v)) return {};
+    std::ostringstream os;
+    os.precision(10);
+    os << v;
+    return os.str();
 }
 
 } // namespace coilsieve::report

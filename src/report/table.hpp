@@ -52,4 +52,7 @@ std::string csv_escape(std::string_view field);
 // Fields escaped and joined by commas, ending in CRLF (RFC 4180 §2 rule 1).
 std::string csv_line(const std::vector<std::string>& fields);
 
+// A number for a CSV cell: ten significant digits, empty when not finite.
+std::string csv_number(double v);
+
 } // namespace coilsieve::report
