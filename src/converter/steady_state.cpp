@@ -281,8 +281,8 @@ PwmInductance pwm_inductance(const parts::InductorModel& l, double scale, const 
 // solved exactly with the closed-form 2×2 matrix exponential e^{At} = e^{μt}·(c·I + s·(A − μI)),
 // μ = tr A/2, δ² = μ² − det A, c = cosh δt, s = sinh(δt)/δ (cos/sin for δ² < 0) (Cayley–Hamilton),
 // around the interval's equilibrium x* = −A⁻¹b; the periodic state solves the 2×2 fixed point
-// x0 = Φ_off·(Φ_on·x0 + g_on) + g_off. ∫i dt exactly (charge_i), the squares by composite Simpson
-// on the exact waveform.
+// x0 = Φ_off·(Φ_on·x0 + g_on) + g_off. ∫i dt exactly (charge_i), and the squares exactly too
+// (a Lyapunov equation per interval, in pwm_wave2).
 struct Lin2 {
     double a11, a12, a21, a22, b1, b2;
 };
@@ -382,6 +382,28 @@ void interval_crests(const Lin2& a, double gi, double gv, const Output2& o, doub
     }
 }
 
+// Gaussian elimination with partial pivoting on a 3×3 system (augmented, row by row).
+bool solve3(double (&m)[3][4], double (&x)[3]) {
+    for (int c = 0; c < 3; ++c) {
+        int p = c;
+        for (int r = c + 1; r < 3; ++r)
+            if (std::abs(m[r][c]) > std::abs(m[p][c])) p = r;
+        if (!(std::abs(m[p][c]) > 0.0)) return false;
+        if (p != c)
+            for (int k = 0; k < 4; ++k) std::swap(m[c][k], m[p][k]);
+        for (int r = c + 1; r < 3; ++r) {
+            const double f = m[r][c] / m[c][c];
+            for (int k = c; k < 4; ++k) m[r][k] -= f * m[c][k];
+        }
+    }
+    for (int c = 2; c >= 0; --c) {
+        double v = m[c][3];
+        for (int k = c + 1; k < 3; ++k) v -= m[c][k] * x[k];
+        x[c] = v / m[c][c];
+    }
+    return true;
+}
+
 Wave2 pwm_wave2(const Lin2& on, const Lin2& off, const Output2& o, double period, double d,
                 bool full) {
     Wave2 w;
@@ -409,45 +431,47 @@ Wave2 pwm_wave2(const Lin2& on, const Lin2& off, const Output2& o, double period
     w.q_off = charge_i(off, e2i, xi1, xv1, w.i0, w.v0, t2);
     w.ok = std::isfinite(w.q_on) && std::isfinite(w.q_off) && w.i0 > 0.0;
     if (!full) return w; // the duty search needs only the charge
-    // Simpson over each interval on the exact solution for the squares and the load's extremes at
-    // the samples (load_crests adds the crests between them).
-    constexpr int n = 16;
-    w.load_min = std::numeric_limits<double>::infinity();
-    w.load_max = -w.load_min;
-    auto run = [&](const Lin2& a, double ei, double ev, double xi, double xv, double t,
-                   double& q2) {
-        const double h = t / n;
-        // One step matrix, applied n times: e^{A·kh} = (e^{A·h})^k, so no exp/cosh per sample.
-        const Mat2 p = expm2(a, h);
-        double ui = xi - ei, uv = xv - ev; // state relative to the equilibrium
-        for (int k = 0; k <= n; ++k) {
-            if (k > 0) {
-                const double ni = p.m11 * ui + p.m12 * uv;
-                uv = p.m21 * ui + p.m22 * uv;
-                ui = ni;
-            }
-            const double i = ei + ui;
-            const double v = ev + uv;
-            const double wk = (k == 0 || k == n) ? 1.0 : (k % 2 == 1 ? 4.0 : 2.0);
-            q2 += wk * i * i;
-            const double il = o.i_load(i, v);
-            const double ic = i - il;
-            w.load_min = std::min(w.load_min, il);
-            w.load_max = std::max(w.load_max, il);
-            w.load_q2 += wk * il * il * h / 3.0;
-            w.cap_q2 += wk * ic * ic * h / 3.0;
+    // The squares exactly: with u = x − x* (u' = A·u), ∫u dt = A⁻¹·(u1 − u0) and X = ∫u·uᵀ dt
+    // solves the Lyapunov equation A·X + X·Aᵀ = u1·u1ᵀ − u0·u0ᵀ (A is stable: its resistances
+    // damp it, so λi + λj != 0). Any current affine in the state, c + g·u, then has
+    // ∫(c + g·u)² dt = c²·t + 2c·g·∫u + gᵀ·X·g. The load's extremes are at the interval ends or
+    // at its crests (load_crests adds those).
+    const double gi = o.beta / o.r, gv = o.alpha / o.r; // ∂i_load/∂i_L, ∂i_load/∂v_C
+    w.load_min = std::min(o.i_load(w.i0, w.v0), o.i_load(xi1, xv1));
+    w.load_max = std::max(o.i_load(w.i0, w.v0), o.i_load(xi1, xv1));
+    auto squares = [&](const Lin2& a, double ei, double ev, double xi0, double xv0, double xi1_,
+                       double xv1_, double t, double& q2) {
+        const double ui0 = xi0 - ei, uv0 = xv0 - ev, ui1 = xi1_ - ei, uv1 = xv1_ - ev;
+        const double da = a.a11 * a.a22 - a.a12 * a.a21;
+        const double si = (a.a22 * (ui1 - ui0) - a.a12 * (uv1 - uv0)) / da; // ∫u dt
+        const double sv = (a.a11 * (uv1 - uv0) - a.a21 * (ui1 - ui0)) / da;
+        // [2a11 2a12 0; a21 a11+a22 a12; 0 2a21 2a22]·(x11, x12, x22) = (r11, r12, r22).
+        double ly[3][4] = {{2.0 * a.a11, 2.0 * a.a12, 0.0, ui1 * ui1 - ui0 * ui0},
+                           {a.a21, a.a11 + a.a22, a.a12, ui1 * uv1 - ui0 * uv0},
+                           {0.0, 2.0 * a.a21, 2.0 * a.a22, uv1 * uv1 - uv0 * uv0}};
+        double x[3];
+        if (!solve3(ly, x)) {
+            q2 = std::numeric_limits<double>::quiet_NaN();
+            return;
         }
-        q2 *= h / 3.0;
+        const double x11 = x[0], x12 = x[1], x22 = x[2];
+        auto sq = [&](double c, double g1, double g2) {
+            return c * c * t + 2.0 * c * (g1 * si + g2 * sv) +
+                   (g1 * g1 * x11 + 2.0 * g1 * g2 * x12 + g2 * g2 * x22);
+        };
+        q2 = sq(ei, 1.0, 0.0);
+        const double c_load = o.i_load(ei, ev);
+        w.load_q2 += sq(c_load, gi, gv);
+        w.cap_q2 += sq(ei - c_load, 1.0 - gi, -gv);
     };
-    run(on, e1i, e1v, w.i0, w.v0, t1, w.q2_on);
-    run(off, e2i, e2v, xi1, xv1, t2, w.q2_off);
+    squares(on, e1i, e1v, w.i0, w.v0, xi1, xv1, t1, w.q2_on);
+    squares(off, e2i, e2v, xi1, xv1, w.i0, w.v0, t2, w.q2_off);
     w.ok = w.ok && std::isfinite(w.q2_on) && std::isfinite(w.q2_off);
     return w;
 }
 
-// The load's p-p of a full pwm_wave2 cycle at duty d, with its crests between the samples: the
-// samples alone can miss a crest by several per cent where the capacitor's time constant is
-// short beside a sample step.
+// The load's p-p of a full pwm_wave2 cycle at duty d: its values at the interval ends with the
+// crests inside each interval.
 double load_crests(const Wave2& x, const Lin2& on, const Lin2& off, const Output2& o, double period,
                    double d) {
     const double gi = o.beta / o.r, gv = o.alpha / o.r; // ∂i_load/∂i_L, ∂i_load/∂v_C
@@ -518,6 +542,30 @@ double brent_root(F&& f, double a, double b, double fa, double fb, double xtol, 
         fb = f(b);
     }
     return b;
+}
+
+// The averaged model's dI/dD for a load v0 + r·I behind the two intervals' sources E_on = Vin,
+// E_off = −V_d0 and resistances: I·(r + R_off + (R_on − R_off)·D) = D·E_on + (1 − D)·E_off − v0.
+double averaged_duty_slope(double vin, double vd0, double r_on, double r_off, double r_load,
+                           double current, double duty) {
+    return (vin + vd0 - (r_on - r_off) * current) / (r_load + r_off + (r_on - r_off) * duty);
+}
+
+// A root of an increasing f by secant steps from x0 with a first slope guess, within (d_min,
+// d_max); 0 when it does not reach |f| <= ftol in a few steps (the caller then brackets).
+template <class F> double secant_root(F&& f, double x0, double slope, double ftol) {
+    double x = x0, fx = f(x);
+    for (int k = 0; k < 6; ++k) {
+        if (std::abs(fx) <= ftol) return x;
+        if (!(slope > 0.0) || !std::isfinite(slope) || !std::isfinite(fx)) return 0.0;
+        const double xn = x - fx / slope;
+        if (!(xn > d_min && xn < d_max)) return 0.0;
+        const double fn = f(xn);
+        if (fn != fx && xn != x) slope = (fn - fx) / (xn - x);
+        x = xn;
+        fx = fn;
+    }
+    return std::abs(fx) <= ftol ? x : 0.0;
 }
 
 // Duty for an average current `target`; false when even d_max cannot reach it.
@@ -905,14 +953,27 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
                     const Wave2 x = pwm_wave2(a_on, a_off, o, period, dd, false);
                     return (x.q_on + x.q_off) / period - target_lin;
                 };
-                double da = std::max(d_min, center - half), db = std::min(d_max, center + half);
-                double fa = g2(da), fb = g2(db);
-                for (int k = 0; k < 8 && fa > 0.0 && da > d_min; ++k)
-                    fa = g2(da = std::max(d_min, da - 0.05));
-                for (int k = 0; k < 8 && fb < 0.0 && db < d_max; ++k)
-                    fb = g2(db = std::min(d_max, db + 0.05));
-                if (!(fa <= 0.0 && fb >= 0.0)) return false;
-                const double d2 = brent_root(g2, da, db, fa, fb, 1e-13, 1e-10 * target, 100);
+                // The mean current is nearly linear in the duty: a Newton step from the centre on
+                // the averaged model's slope (Erickson & Maksimović 2nd ed. ch. 3), then secant
+                // steps, mostly meet the tolerance in two or three solves; Brent on a bracket
+                // takes over when they do not.
+                const double ftol = 1e-10 * target;
+                double d2 =
+                    secant_root(g2, std::clamp(center, d_min, d_max),
+                                averaged_duty_slope(vin, vd0, ron + r_sense + dcr,
+                                                    r_sense + dcr + rd, r_load, target_lin, center),
+                                ftol);
+                if (!(d2 > 0.0)) {
+                    double da = std::max(d_min, center - half);
+                    double db = std::min(d_max, center + half);
+                    double fa = g2(da), fb = g2(db);
+                    for (int k = 0; k < 8 && fa > 0.0 && da > d_min; ++k)
+                        fa = g2(da = std::max(d_min, da - 0.05));
+                    for (int k = 0; k < 8 && fb < 0.0 && db < d_max; ++k)
+                        fb = g2(db = std::min(d_max, db + 0.05));
+                    if (!(fa <= 0.0 && fb >= 0.0)) return false;
+                    d2 = brent_root(g2, da, db, fa, fb, 1e-13, ftol, 100);
+                }
                 const Wave2 x = pwm_wave2(a_on, a_off, o, period, d2, true);
                 if (!(x.ok && x.i_peak > x.i0)) return false;
                 duty = d2;
