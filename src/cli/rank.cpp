@@ -35,6 +35,8 @@ constexpr LimitSpec limit_specs[] = {
     {"load_ripple", u::Dimension::ratio, Direction::upper},
     {"f_sw_min", u::Dimension::frequency, Direction::lower},
     {"f_sw_max", u::Dimension::frequency, Direction::upper},
+    {"t_on_min", u::Dimension::time, Direction::lower},
+    {"t_off_min", u::Dimension::time, Direction::lower},
     {"isat_derating", u::Dimension::ratio, Direction::upper},
     {"vrrm_derating", u::Dimension::ratio, Direction::upper},
     {"diode_current_derating", u::Dimension::ratio, Direction::upper},
@@ -139,6 +141,8 @@ void apply_limit(design::Design& d, std::string_view spec) {
     if (name == "load_ripple") l.load_ripple = v;
     else if (name == "f_sw_min") l.f_sw_min = v;
     else if (name == "f_sw_max") l.f_sw_max = v;
+    else if (name == "t_on_min") l.t_on_min = v;
+    else if (name == "t_off_min") l.t_off_min = v;
     else if (name == "isat_derating") l.isat_derating = v;
     else if (name == "vrrm_derating") l.vrrm_derating = v;
     else if (name == "diode_current_derating") l.diode_current_derating = v;

@@ -33,7 +33,8 @@ u::Dimension field_dimension(const std::vector<std::string>& path, const design:
     if (k == "frequency" || k == "f_sw_min" || k == "f_sw_max") return u::Dimension::frequency;
     if (k == "band")
         return d.control.band_is_fraction ? u::Dimension::ratio : u::Dimension::current;
-    if (k == "delay" || k == "rise_time" || k == "fall_time") return u::Dimension::time;
+    if (k == "delay" || k == "rise_time" || k == "fall_time" || k == "t_on_min" || k == "t_off_min")
+        return u::Dimension::time;
     if (k == "gate_charge") return u::Dimension::charge;
     if (k == "capacity") return u::Dimension::battery_capacity;
     if (k == "load_ripple" || k == "isat_derating" || k == "vrrm_derating" ||

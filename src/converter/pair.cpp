@@ -108,9 +108,9 @@ PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
 
     PairEvaluation e;
     e.corners.reserve(corners.size());
-    // One reverse-voltage check, up to ten per corner, efficiency, heights and footprint: no
+    // One reverse-voltage check, up to twelve per corner, efficiency, heights and footprint: no
     // regrowth on the optimiser's hot path.
-    e.checks.reserve(1 + 10 * corners.size() + 4);
+    e.checks.reserve(1 + 12 * corners.size() + 4);
     for (const Corner& c : corners)
         e.corners.push_back(evaluate_corner(d, lm, dm, c, corner_setting(d, c, s)));
 
@@ -123,6 +123,15 @@ PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
     const double vr_bound = lim.vrrm_derating * diode.vrrm;
     const double id_bound = lim.diode_current_derating * diode.if_avg;
     const std::string pct_isat = fmt(lim.isat_derating, Dimension::ratio);
+    // A switch needs its rise plus fall time to turn fully on and off again: shorter pulses never
+    // reach the states the waveform and loss models assume. A controller has its own minimums.
+    const double transitions = std::max(0.0, d.sw.rise_time) + std::max(0.0, d.sw.fall_time);
+    const double t_on_bound = std::max(lim.t_on_min.value_or(0.0), transitions);
+    const double t_off_bound = std::max(lim.t_off_min.value_or(0.0), transitions);
+    auto pulse_source = [&](const std::optional<double>& given, double bound) {
+        return given && *given >= bound ? std::string(" (the controller's minimum)")
+                                        : std::string(" (the switch's rise plus fall time)");
+    };
 
     // Reverse voltage: once, at the highest supply (it does not depend on the corner's result).
     if (!corners.empty()) {
@@ -182,6 +191,20 @@ PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
                        "frequency " +
                        b + ", where it stops being an inductor" + at(cn);
             });
+        if (t_on_bound > 0.0)
+            check.lower("t_on_min", cn, r.t_on, t_on_bound, [&] {
+                const auto [v, b] = apart(r.t_on, t_on_bound, Dimension::time);
+                return "switch on-time " + v + " is below the minimum " + b +
+                       pulse_source(lim.t_on_min, t_on_bound) + at(cn);
+            });
+        if (t_off_bound > 0.0 && r.f_sw > 0.0) {
+            const double t_off = 1.0 / r.f_sw - r.t_on; // the switch's, DCM idle time included
+            check.lower("t_off_min", cn, t_off, t_off_bound, [&] {
+                const auto [v, b] = apart(t_off, t_off_bound, Dimension::time);
+                return "switch off-time " + v + " is below the minimum " + b +
+                       pulse_source(lim.t_off_min, t_off_bound) + at(cn);
+            });
+        }
         check.upper("isat", cn, r.il_peak, isat_bound, [&] {
             const auto [v, b] = apart(r.il_peak, isat_bound, Dimension::current);
             return "peak inductor current " + v + " exceeds " + pct_isat + " of Isat (" + b + ")" +

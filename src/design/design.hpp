@@ -55,9 +55,13 @@ struct Ambient {
 
 // Every limit is optional; absent means "not checked".
 struct Limits {
-    std::optional<double> load_ripple;    // fraction p-p of average load current
-    double f_sw_min = 20e3;               // Hz, above hearing (common practice)
-    std::optional<double> f_sw_max;       // Hz
+    std::optional<double> load_ripple; // fraction p-p of average load current
+    double f_sw_min = 20e3;            // Hz, above hearing (common practice)
+    std::optional<double> f_sw_max;    // Hz
+    // The controller's minimum on-time and off-time (its datasheet's figures). Either way the
+    // switch needs at least its rise plus fall time to switch fully (converter/pair.cpp).
+    std::optional<double> t_on_min;       // s
+    std::optional<double> t_off_min;      // s
     double isat_derating = 0.8;           // peak <= derating * Isat (common practice)
     double vrrm_derating = 0.8;           // reverse voltage <= derating * Vrrm (common practice)
     double diode_current_derating = 0.8;  // diode average <= derating * If(AV) (common practice)

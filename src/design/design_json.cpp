@@ -581,9 +581,9 @@ private:
         const std::string p = "limits";
         check_object(v, p, "of limits");
         check_keys(v, p,
-                   {"load_ripple", "f_sw_min", "f_sw_max", "isat_derating", "vrrm_derating",
-                    "diode_current_derating", "tj_max", "t_inductor_max", "height_max",
-                    "footprint_max", "efficiency_min"});
+                   {"load_ripple", "f_sw_min", "f_sw_max", "t_on_min", "t_off_min", "isat_derating",
+                    "vrrm_derating", "diode_current_derating", "tj_max", "t_inductor_max",
+                    "height_max", "footprint_max", "efficiency_min"});
         Limits l;
         if (const json* x = find(v, "load_ripple"))
             l.load_ripple = positive(*x, "limits.load_ripple", Dimension::ratio);
@@ -591,6 +591,10 @@ private:
             l.f_sw_min = positive(*x, "limits.f_sw_min", Dimension::frequency);
         if (const json* x = find(v, "f_sw_max"))
             l.f_sw_max = positive(*x, "limits.f_sw_max", Dimension::frequency);
+        if (const json* x = find(v, "t_on_min"))
+            l.t_on_min = positive(*x, "limits.t_on_min", Dimension::time);
+        if (const json* x = find(v, "t_off_min"))
+            l.t_off_min = positive(*x, "limits.t_off_min", Dimension::time);
         if (const json* x = find(v, "isat_derating"))
             l.isat_derating = fraction_in(*x, "limits.isat_derating", true);
         if (const json* x = find(v, "vrrm_derating"))
@@ -702,6 +706,23 @@ private:
         };
         above_ambient(d.limits.tj_max, "tj_max");
         above_ambient(d.limits.t_inductor_max, "t_inductor_max");
+        {
+            // Every period holds an on-time and an off-time, and no period may be longer than
+            // 1/f_sw_min.
+            const double on =
+                std::max(d.limits.t_on_min.value_or(0.0), d.sw.rise_time + d.sw.fall_time);
+            const double off =
+                std::max(d.limits.t_off_min.value_or(0.0), d.sw.rise_time + d.sw.fall_time);
+            if ((d.limits.t_on_min || d.limits.t_off_min) && on + off >= 1.0 / d.limits.f_sw_min)
+                fail(d.limits.t_on_min ? "limits.t_on_min" : "limits.t_off_min",
+                     "the shortest on-time " + units::format(on, Dimension::time) +
+                         " and off-time " + units::format(off, Dimension::time) +
+                         " (the limits, or the switch's rise plus fall time where larger) "
+                         "leave no period within f_sw_min " +
+                         units::format(d.limits.f_sw_min, Dimension::frequency) + " (" +
+                         units::format(1.0 / d.limits.f_sw_min, Dimension::time) +
+                         "); lower them or f_sw_min");
+        }
         if (d.control.mode == ControlMode::pwm) {
             const bool below = d.control.frequency_max < d.limits.f_sw_min;
             const bool above = d.limits.f_sw_max && d.control.frequency_min > *d.limits.f_sw_max;
@@ -849,6 +870,8 @@ json to_json(const Design& d) {
     if (l.load_ripple) lim["load_ripple"] = *l.load_ripple;
     lim["f_sw_min"] = l.f_sw_min;
     if (l.f_sw_max) lim["f_sw_max"] = *l.f_sw_max;
+    if (l.t_on_min) lim["t_on_min"] = *l.t_on_min;
+    if (l.t_off_min) lim["t_off_min"] = *l.t_off_min;
     lim["isat_derating"] = l.isat_derating;
     lim["vrrm_derating"] = l.vrrm_derating;
     lim["diode_current_derating"] = l.diode_current_derating;

@@ -119,7 +119,8 @@ Dimension limit_dimension(const std::string& limit) {
         {"vrrm", Dimension::voltage},         {"diode_current", Dimension::current},
         {"tj_max", Dimension::temperature},   {"efficiency_min", Dimension::ratio},
         {"height_max", Dimension::length},    {"footprint_max", Dimension::area},
-        {"regulation", Dimension::ratio}};
+        {"regulation", Dimension::ratio},     {"srf", Dimension::frequency},
+        {"t_on_min", Dimension::time},        {"t_off_min", Dimension::time}};
     const auto it = dims.find(limit);
     return it == dims.end() ? Dimension::dimensionless : it->second;
 }

@@ -153,6 +153,14 @@ TEST_F(RankCli, LimitsTakeInclusiveBoundsOrTheDesignFilesNames) {
     ASSERT_EQ(r.code, 0) << r.err;
     const auto j = nlohmann::json::parse(r.out);
     EXPECT_DOUBLE_EQ(j["design"]["limits"]["height_max"].get<double>(), 0.003);
+    // The controller's minimum pulses, in time units; a maximum is the wrong direction.
+    ASSERT_NE(run(rank + "--study p --limit 't_on_min>=150ns' --limit 't_off_min=0.1us'").code, 2);
+    const auto p = nlohmann::json::parse(run("study show p --json").out);
+    EXPECT_DOUBLE_EQ(p["design"]["limits"]["t_on_min"].get<double>(), 150e-9);
+    EXPECT_DOUBLE_EQ(p["design"]["limits"]["t_off_min"].get<double>(), 100e-9);
+    const Outcome wrong = run(rank + "--no-save --limit 't_on_min<=150ns'");
+    EXPECT_EQ(wrong.code, 2);
+    EXPECT_TRUE(has(wrong.err, "t_on_min>=VALUE")) << wrong.err;
 }
 
 // The exit codes the README and --help give: a bad design file is a usage error in every command.

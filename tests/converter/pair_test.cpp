@@ -237,6 +237,58 @@ TEST(Pair, JsonCarriesTheDocumentedKeys) {
 }
 
 } // namespace
+// A pulse the switch cannot complete, or shorter than the controller allows, breaks t_on_min or
+// t_off_min. A buck in CCM has D >= V_o/V_in (volt-second balance with the drops on the load's
+// side, Erickson & Maksimović 2nd ed., ch. 2) and D <= (V_o + V_D + I·R)/V_in, V_D <= 1 V and
+// R <= 1 Ω taking every drop here; 47 µH at 2 MHz keeps 700 mA far from DCM.
+TEST(PairLimits, PulsesShorterThanTheSwitchOrControllerAllowsAreBroken) {
+    auto d = led_design();
+    d.control.mode = design::ControlMode::pwm;
+    d.control.frequency = 2e6;
+    d.control.frequency_min = 20e3;
+    d.control.frequency_max = 20e6;
+    const auto l = inductor();
+    const auto di = diode();
+    // Three LEDs, 3.0 V each at 25 °C and 2 mV/K less when hot (55 °C): V_o in 8.8–9.0 V.
+    const double vo_lo = 3 * (3.0 - 2e-3 * 30.0), vo_hi = 3 * 3.0 + 0.7 * 0.3;
+    auto broken = [&](const design::Design& dd, double f, const char* limit) {
+        Setting s;
+        s.frequency = f;
+        const auto e = evaluate_pair(dd, l, di, s);
+        for (const auto& c : e.corners) EXPECT_FALSE(c.dcm) << c.name;
+        std::string all; // every corner's message
+        for (const auto& c : e.violations)
+            if (c.limit == limit) all += c.message + "\n";
+        return all;
+    };
+    // Shortest on-time at 28 V, shortest off-time at 20 V.
+    const double f = 2e6;
+    const double on_lo = vo_lo / 28.0 / f, on_hi = (vo_hi + 1.0 + 0.7) / 28.0 / f;
+    const double off_lo = (1.0 - (vo_hi + 1.0 + 0.7) / 20.0) / f, off_hi = (1.0 - vo_lo / 20.0) / f;
+    d.limits.t_on_min = 0.95 * on_lo;
+    d.limits.t_off_min = 0.95 * off_lo;
+    EXPECT_EQ(broken(d, f, "t_on_min"), "");
+    EXPECT_EQ(broken(d, f, "t_off_min"), "");
+    d.limits.t_on_min = 1.05 * on_hi;
+    d.limits.t_off_min = 1.05 * off_hi;
+    const std::string on = broken(d, f, "t_on_min"), off = broken(d, f, "t_off_min");
+    EXPECT_NE(on.find("controller's minimum"), std::string::npos) << on;
+    EXPECT_NE(on.find("vin-max"), std::string::npos) << on;
+    EXPECT_NE(off.find("controller's minimum"), std::string::npos) << off;
+    EXPECT_NE(off.find("vin-min"), std::string::npos) << off;
+
+    // No controller limit: the switch's own rise plus fall time (20 + 20 ns by default) is the
+    // floor. At 10 MHz the on-time at 28 V is below 40 ns; with 5 + 5 ns transitions it is not.
+    d.limits.t_on_min.reset();
+    d.limits.t_off_min.reset();
+    ASSERT_LT((vo_hi + 1.0 + 0.7) / 28.0 / 10e6, 40e-9);
+    const std::string floor = broken(d, 10e6, "t_on_min");
+    EXPECT_NE(floor.find("rise plus fall"), std::string::npos) << floor;
+    d.sw.rise_time = d.sw.fall_time = 5e-9;
+    ASSERT_GT(vo_lo / 28.0 / 10e6, 10e-9);
+    EXPECT_EQ(broken(d, 10e6, "t_on_min"), "");
+}
+
 } // namespace coilsieve::converter
 
 namespace coilsieve::converter {

@@ -128,6 +128,8 @@ void expect_same(const Design& a, const Design& b) {
     EXPECT_EQ(a.limits.diode_current_derating, b.limits.diode_current_derating);
     EXPECT_EQ(a.limits.tj_max, b.limits.tj_max);
     EXPECT_EQ(a.limits.t_inductor_max, b.limits.t_inductor_max);
+    EXPECT_EQ(a.limits.t_on_min, b.limits.t_on_min);
+    EXPECT_EQ(a.limits.t_off_min, b.limits.t_off_min);
     EXPECT_EQ(a.limits.height_max, b.limits.height_max);
     EXPECT_EQ(a.limits.footprint_max, b.limits.footprint_max);
     EXPECT_EQ(a.limits.efficiency_min, b.limits.efficiency_min);
@@ -229,6 +231,9 @@ TEST(DesignFile, RoundTripIsExact) {
     amps["output_capacitor"] = {{"capacitance", "4.7uF"}, {"esr", "15mohm"}};
     amps["limits"]["footprint_max"] = "60mm2";
     amps["limits"]["efficiency_min"] = "87.5%";
+    amps["limits"]["t_on_min"] = "150ns";
+    amps["limits"]["t_off_min"] = "0.2us";
+    EXPECT_EQ(read_design(amps, "rt.json").limits.t_off_min, 200e-9);
     amps["pareto"] = {"loss", "ripple", "margin"};
     EXPECT_EQ(read_design(amps, "rt.json").pareto,
               (std::vector<Objective>{Objective::loss, Objective::ripple, Objective::margin}));
@@ -308,6 +313,14 @@ TEST(DesignFile, MalformedFieldsAreNamed) {
         {[](json& j) { j["ambient"]["max"] = "175C"; }, "ambient.max", "-55 °C to 150 °C"},
         {[](json& j) { j["ambient"]["min"] = "-60C"; }, "ambient.min", "-55 °C to 150 °C"},
         {[](json& j) { j["limits"]["f_sw_min"] = "2MHz"; }, "limits.f_sw_min", "f_sw_max"},
+        {[](json& j) { j["limits"]["t_on_min"] = "100nA"; }, "limits.t_on_min", "time"},
+        {[](json& j) { j["limits"]["t_off_min"] = "-5ns"; }, "limits.t_off_min", ""},
+        // 30 µs + 25 µs of pulses do not fit in the longest period 1/20 kHz = 50 µs.
+        {[](json& j) {
+             j["limits"]["t_on_min"] = "30us";
+             j["limits"]["t_off_min"] = "25us";
+         },
+         "limits.t_on_min", "f_sw_min"},
         {[](json& j) { j["limits"]["isat_derating"] = 1.5; }, "limits.isat_derating", ""},
         {[](json& j) { j["limits"]["efficiency_min"] = "120%"; }, "limits.efficiency_min", ""},
         {[](json& j) { j["limits"]["tj_max"] = "50C"; }, "limits.tj_max", "ambient.max"},
