@@ -404,8 +404,8 @@ bool solve3(double (&m)[3][4], double (&x)[3]) {
     return true;
 }
 
-Wave2 pwm_wave2(const Lin2& on, const Lin2& off, const Output2& o, double period, double d,
-                bool full) {
+// The periodic cycle at duty d: its states and charges (what the duty search needs).
+Wave2 pwm_wave2(const Lin2& on, const Lin2& off, double period, double d) {
     Wave2 w;
     const double t1 = d * period, t2 = period - t1;
     const Mat2 p1 = expm2(on, t1), p2 = expm2(off, t2);
@@ -430,7 +430,17 @@ Wave2 pwm_wave2(const Lin2& on, const Lin2& off, const Output2& o, double period
     w.q_on = charge_i(on, e1i, w.i0, w.v0, xi1, xv1, t1);
     w.q_off = charge_i(off, e2i, xi1, xv1, w.i0, w.v0, t2);
     w.ok = std::isfinite(w.q_on) && std::isfinite(w.q_off) && w.i0 > 0.0;
-    if (!full) return w; // the duty search needs only the charge
+    return w;
+}
+
+// The squares and the load's extremes at the interval ends, added to a cycle of pwm_wave2.
+void pwm_squares(Wave2& w, const Lin2& on, const Lin2& off, const Output2& o, double period,
+                 double d) {
+    const double t1 = d * period, t2 = period - t1;
+    double e1i, e1v, e2i, e2v;
+    equilibrium(on, e1i, e1v);
+    equilibrium(off, e2i, e2v);
+    const double xi1 = w.i_peak, xv1 = w.v_peak;
     // The squares exactly: with u = x − x* (u' = A·u), ∫u dt = A⁻¹·(u1 − u0) and X = ∫u·uᵀ dt
     // solves the Lyapunov equation A·X + X·Aᵀ = u1·u1ᵀ − u0·u0ᵀ (A is stable: its resistances
     // damp it, so λi + λj != 0). Any current affine in the state, c + g·u, then has
@@ -467,7 +477,6 @@ Wave2 pwm_wave2(const Lin2& on, const Lin2& off, const Output2& o, double period
     squares(on, e1i, e1v, w.i0, w.v0, xi1, xv1, t1, w.q2_on);
     squares(off, e2i, e2v, xi1, xv1, w.i0, w.v0, t2, w.q2_off);
     w.ok = w.ok && std::isfinite(w.q2_on) && std::isfinite(w.q2_off);
-    return w;
 }
 
 // The load's p-p of a full pwm_wave2 cycle at duty d: its values at the interval ends with the
@@ -949,8 +958,11 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
                 };
                 const Lin2 a_on = lin(vin, ron + r_sense + dcr, on.l);
                 const Lin2 a_off = lin(-vd0, r_sense + dcr + rd, off.l);
+                Wave2 x;           // the last cycle the search solved
+                double x_d = -1.0; // at this duty
                 auto g2 = [&](double dd) {
-                    const Wave2 x = pwm_wave2(a_on, a_off, o, period, dd, false);
+                    x = pwm_wave2(a_on, a_off, period, dd);
+                    x_d = dd;
                     return (x.q_on + x.q_off) / period - target_lin;
                 };
                 // The mean current is nearly linear in the duty: a Newton step from the centre on
@@ -974,7 +986,8 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
                     if (!(fa <= 0.0 && fb >= 0.0)) return false;
                     d2 = brent_root(g2, da, db, fa, fb, 1e-13, ftol, 100);
                 }
-                const Wave2 x = pwm_wave2(a_on, a_off, o, period, d2, true);
+                if (x_d != d2) g2(d2);
+                pwm_squares(x, a_on, a_off, o, period, d2);
                 if (!(x.ok && x.i_peak > x.i0)) return false;
                 duty = d2;
                 w.dcm = false;
