@@ -225,6 +225,7 @@ public:
             // Over each ramp: the off-voltage at least, the on-voltage at most, L at most.
             double voff_least = 0.0, von_most = 0.0, l_top = 0.0;
             double triangle_share = 0.0; // PWM: an ideal triangle's load p-p per A of ΔI (CCM)
+            double shape_slack = ramp_shape_slack; // PWM in CCM: for the ramps' curvature
             if (hysteretic(c_)) {
                 // The comparator trips at I ± b/2; the switch follows t_d later, so the peak is
                 // i_hi + ∫v_on/L over t_d and the valley i_lo − ∫v_off/L (clamped at zero, DCM).
@@ -356,10 +357,14 @@ public:
                 if (p.capacitor && von_lb > 0.0) {
                     const double d_lo = voff_valley / (von_ub + voff_valley);
                     const double d_hi = voff_ub / (von_lb + voff_ub);
-                    if (d_lo > 0.0 && d_hi < 1.0)
+                    if (d_lo > 0.0 && d_hi < 1.0) {
                         triangle_share =
                             std::min(converter::triangle_load_ripple(k.r, p.cap, p.esr, x2, d_lo),
                                      converter::triangle_load_ripple(k.r, p.cap, p.esr, x2, d_hi));
+                        // The longer ramp's R·t/L at most: the lowest frequency, the least L.
+                        shape_slack = curved_ramp_slack((p.r_on_ub + k.r) *
+                                                        std::max(d_hi, 1.0 - d_lo) / (x1 * l_lo));
+                    }
                 }
                 // The mean of near-linear ramps sits mid-way between valley and peak (CCM), and
                 // below peak/2 in DCM, so peak >= I + ΔI/2; ramp_shape_slack allows for the
@@ -395,12 +400,12 @@ public:
             // - PWM in CCM: the two-state solution. Any waveform's p-p is at least π/2 times its
             //   fundamental (the square wave is the extreme), and a triangle's fundamental is at
             //   least ΔI/π, so p-p >= share(f_ub)·ΔI/2; tighter, the ideal triangle's own ripple
-            //   through the divider, with ramp_shape_slack for curved ramps;
+            //   through the divider, with curved_ramp_slack for curved ramps;
             // - PWM, CCM not certain: the smaller of the two.
             double load_share = 1.0;
             if (p.capacitor) {
                 const double share = converter::load_ripple_share(k.r, p.cap, p.esr, f_ub);
-                const double ccm = std::max(0.5 * share, ramp_shape_slack * triangle_share);
+                const double ccm = std::max(0.5 * share, shape_slack * triangle_share);
                 if (hysteretic(c_)) // its allowance is in triangle_share
                     load_share = valley_lb > 0.0 ? triangle_share : std::min(share, triangle_share);
                 else if (dcm_certain) load_share = share;

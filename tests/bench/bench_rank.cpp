@@ -82,6 +82,7 @@ void report(benchmark::State& state, const studies::RankResult& r) {
     state.counters["probed"] = static_cast<double>(r.counts.pairs_probed);
     state.counters["screened_in"] = static_cast<double>(r.counts.pairs_considered);
     state.counters["pareto"] = static_cast<double>(r.counts.pareto);
+    state.counters["infeasible"] = static_cast<double>(r.counts.pairs_infeasible);
     state.counters["evaluations"] = static_cast<double>(r.counts.evaluations);
     state.counters["seconds"] = r.elapsed_s;
     state.counters["pairs_per_s"] = static_cast<double>(r.counts.pairs_total) / r.elapsed_s;

@@ -26,6 +26,7 @@
 #include <cmath>
 #include <gtest/gtest.h>
 #include <optional>
+#include <random>
 #include <string>
 #include <vector>
 
@@ -425,6 +426,60 @@ TEST(BoundsPwm, RampShapeAllowanceCoversTheEnginesLoadRipple) {
     }
     EXPECT_GT(corners, 3000u);
     RecordProperty("least_ratio", std::to_string(least));
+}
+
+// The curvature allowance the PWM bound takes in CCM with a capacitor (curved_ramp_slack): over
+// random starter pairs, supplies from 1 V of headroom above the battery's top to 25 V above it,
+// light to heavy capacitors and frequencies over the range, the load's p-p stays above the ideal
+// triangle's (same ΔI, duty and divider) times the allowance at x = R·t/L. x here uses the
+// corner's nominal inductance, the winding's typical DCR and the actual duty and frequency, so it
+// is no larger than the bound's (least L, hottest DCR, duty range, lowest frequency): the check is
+// stricter than the bound needs. Feasible corners only (peak within the derated Isat, CCM).
+TEST(BoundsPwm, CurvedRampAllowanceCoversTheEnginesLoadRipple) {
+    const auto& k = starter();
+    Case s("two-cell-charger.json");
+    std::mt19937 rng(11);
+    std::uniform_int_distribution<std::size_t> pick_l(0, k.inductors.size() - 1);
+    std::uniform_int_distribution<std::size_t> pick_d(0, k.diodes.size() - 1);
+    std::uniform_real_distribution<double> u(0.0, 1.0);
+    const double caps[] = {1e-6, 10e-6, 100e-6};
+    std::size_t corners = 0, curved = 0;
+    double needed = 0.0;
+    for (int n = 0; n < 8000; ++n) {
+        auto d = s.d;
+        const double vs = n % 2 ? 8.6 + 1.6 * u(rng) : 8.6 + 25.0 * u(rng);
+        d.supply = {vs, vs, vs};
+        d.output_capacitor = design::OutputCapacitor{caps[n % 3], n % 2 ? 0.0 : 0.01};
+        const auto base = converter::default_setting(d);
+        const double f = s.range.lo * std::pow(s.range.hi / s.range.lo, u(rng));
+        const auto& l = k.inductors[pick_l(rng)];
+        const auto& di = k.diodes[pick_d(rng)];
+        const auto e =
+            converter::evaluate_pair(d, l, di, optimisation::make_setting(s.range, base, f));
+        const auto points = converter::make_corners(d, l.tolerance);
+        for (std::size_t c = 0; c < e.corners.size(); ++c) {
+            const auto& r = e.corners[c];
+            if (r.status != converter::CornerStatus::ok || r.dcm ||
+                r.il_peak > d.limits.isat_derating * l.isat)
+                continue;
+            const auto& oc = *d.output_capacitor;
+            const double tri = converter::triangle_load_ripple(points[c].point.r, oc.capacitance,
+                                                               oc.esr, r.f_sw, r.duty);
+            const double ratio = r.load_ripple_pp / (tri * r.il_ripple_pp);
+            const double rs = converter::switch_on_resistance(d.sw, points[c].ambient) +
+                              d.sense_resistor + l.dcr_typ + points[c].point.r;
+            const double x =
+                rs * std::max(r.duty, 1.0 - r.duty) / (r.f_sw * l.inductance * points[c].l_scale);
+            ++corners;
+            if (x > 0.1) ++curved;
+            needed = std::max(needed, (1.0 - ratio) / x);
+            EXPECT_GE(ratio, studies::curved_ramp_slack(x))
+                << l.id << " with " << di.id << " at " << r.name << ", " << vs << " V, x " << x;
+        }
+    }
+    EXPECT_GT(corners, 20000u);
+    EXPECT_GT(curved, 1000u) << "too few strongly curved ramps to test the allowance";
+    RecordProperty("coefficient_needed", std::to_string(needed));
 }
 
 // Under PWM the bounds take the average current as the target itself (screen.hpp,
