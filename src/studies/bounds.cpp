@@ -342,8 +342,14 @@ public:
                     valley_lb = std::max(valley_lb, i_lb - (1.0 - h) * di_ub);
                 }
                 const double voff_valley = voff_at(valley_lb);
-                if (valley_lb > 0.0) // CCM certain
-                    di_lb = std::max(di_lb, volt_second_rate(von_lb, voff_valley) / (p.l_hi * x2));
+                // CCM certain: the current stays above the valley, so L(i) <= L(valley) along the
+                // cycle and ΔI >= ΔΨ/L(valley).
+                const double l_valley = valley_lb > 0.0
+                                            ? std::min(p.l_hi, m_.inductance(valley_lb, k.l_scale))
+                                            : p.l_hi;
+                if (valley_lb > 0.0)
+                    di_lb =
+                        std::max(di_lb, volt_second_rate(von_lb, voff_valley) / (l_valley * x2));
                 voff_least = voff_valley;
                 von_most = von_at(valley_lb);
                 l_top = p.l_hi;
@@ -432,6 +438,13 @@ public:
                 const double off = von_lb / (von_lb + voff_ub);
                 for (const auto& st : diode_bound_->settling)
                     if (st.point == operating_point(k) && off > st.share) close("tj_max");
+                // Its average current is that share times the off-ramp's mean, at least
+                // valley + h·ΔI (ramp_mean_share).
+                if (ramps_known) {
+                    const double h = ramp_mean_share(r_off);
+                    if (off * ((1.0 - h) * valley_lb + h * peak_lb) > diode_bound_->current_max)
+                        close("diode_current");
+                }
             }
             if (!k.nominal) continue;
             // Switch transitions (Mohan, Undeland, Robbins 3rd ed. §2-7), gate and C_oss.
@@ -676,6 +689,7 @@ DiodeBound diode_bound(const ScreenContext& c, const parts::Diode& diode,
         b.e_switch = e_sw / w_sum;
     }
     b.qrr_per_amp = m.qrr_ref > 0.0 && m.if_ref > 0.0 ? m.qrr_ref / m.if_ref : std::max(0.0, m.tt);
+    if (diode.if_avg > 0.0) b.current_max = lim.diode_current_derating * diode.if_avg;
     const auto& wt = c.design->weights;
     b.score = wt.loss * b.loss / s.power + wt.size * b.size / s.volume;
     return b;

@@ -89,11 +89,12 @@ struct InductorBound {
 };
 
 struct DiodeBound {
-    double score = 0.0;       // the diode's share of the score (its conduction loss and size)
-    double loss = 0.0;        // W, conduction loss floor at the nominal corner(s)
-    double size = 0.0;        // m^3, exact
-    double e_switch = 0.0;    // J per cycle of junction-charge loss at the nominal Vin
-    double qrr_per_amp = 0.0; // C/A: recovery charge per ampere of forward current
+    double score = 0.0;            // the diode's share of the score (its conduction loss and size)
+    double loss = 0.0;             // W, conduction loss floor at the nominal corner(s)
+    double size = 0.0;             // m^3, exact
+    double e_switch = 0.0;         // J per cycle of junction-charge loss at the nominal Vin
+    double qrr_per_amp = 0.0;      // C/A: recovery charge per ampere of forward current
+    double current_max = INFINITY; // A, the derated average current rating (diode_current)
     std::vector<JunctionBalance> nominal; // its heating balance at each nominal corner
     // At each operating point of the design, the largest share of the period the diode can
     // conduct and still balance below its limit (JunctionBalance).
