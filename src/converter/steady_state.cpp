@@ -43,13 +43,6 @@ constexpr double d_min = 1e-9, d_max = 1.0 - 1e-9;
 
 std::string fmt(double v, Dimension d) { return units::format(v, d); }
 
-// SPICE forward law at one junction temperature, V_f = N·Vt·ln(1 + i/IS(T)) + RS·i, the same
-// expression as parts::DiodeModel::vf (ngspice diode model) with IS(T) evaluated once.
-struct Forward {
-    double nvt = 0.0, is = 1.0, rs = 0.0;
-    double operator()(double i) const { return i > 0.0 ? nvt * std::log1p(i / is) + rs * i : 0.0; }
-};
-
 struct Wave {
     double i_valley = 0.0, i_peak = 0.0;
     double t_on = 0.0, t_off = 0.0, t_idle = 0.0;
@@ -853,9 +846,9 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
         dcr = l.dcr(t_l, c.dcr_max);
 
         // Diode V_f at five currents over the present ripple (the fit and Simpson's rule share
-        // them).
-        const Forward vf{diode.fwd.n * parts::thermal_voltage(tj), diode.saturation_current(tj),
-                         diode.fwd.rs};
+        // them), from the SPICE forward law at this junction temperature (IS(T) once).
+        const parts::ForwardLaw law = diode.forward_at(tj);
+        auto vf = [&law](double i) { return law.vf(i); };
         double node[5], vnode[5];
         const double h = 0.25 * (lin_hi - lin_lo);
         for (int k = 0; k < 5; ++k) {
