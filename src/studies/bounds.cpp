@@ -358,8 +358,8 @@ public:
                 // there at the highest frequency (triangle_load_ripple falls with f). The range
                 // is narrow (at most 0.058 wide over the example charger's pairs) and the
                 // function nearly linear over it, so the least of its ends stands for its least
-                // (within 0.5 % for ranges up to 0.1 wide: tested, and covered by
-                // ramp_shape_slack).
+                // within duty_ends_slack for ranges up to duty_ends_width (tested), within
+                // ramp_shape_slack beyond.
                 if (p.capacitor && von_lb > 0.0) {
                     const double d_lo = voff_valley / (von_ub + voff_valley);
                     const double d_hi = voff_ub / (von_lb + voff_ub);
@@ -368,16 +368,21 @@ public:
                             std::min(converter::triangle_load_ripple(k.r, p.cap, p.esr, x2, d_lo),
                                      converter::triangle_load_ripple(k.r, p.cap, p.esr, x2, d_hi));
                         // The longer ramp's R·t/L at most: the lowest frequency, the least L.
-                        shape_slack = curved_ramp_slack((p.r_on_ub + k.r) *
-                                                        std::max(d_hi, 1.0 - d_lo) / (x1 * l_lo));
+                        shape_slack =
+                            (d_hi - d_lo <= duty_ends_width ? duty_ends_slack : ramp_shape_slack) *
+                            curved_ramp_slack((p.r_on_ub + k.r) * std::max(d_hi, 1.0 - d_lo) /
+                                              (x1 * l_lo));
                     }
                 }
                 // The mean of near-linear ramps sits mid-way between valley and peak (CCM), and
-                // below peak/2 in DCM, so peak >= I + ΔI/2; ramp_shape_slack allows for the
-                // curvature of R–L ramps and L(i). With CCM certain the mean is at most
-                // peak − h·ΔI, so peak >= I + h·ΔI without an allowance.
+                // below peak/2 in DCM, so peak >= I + ΔI/2; curved_peak_slack allows for the
+                // curvature of R–L ramps, with R·T/L at most at the lowest frequency and least L.
+                // With CCM certain the mean is at most peak − h·ΔI, so peak >= I + h·ΔI without
+                // an allowance.
                 peak_lb =
-                    valley_lb > 0.0 ? i_lb + h * di_lb : i_lb + 0.5 * ramp_shape_slack * di_lb;
+                    valley_lb > 0.0
+                        ? i_lb + h * di_lb
+                        : i_lb + 0.5 * curved_peak_slack((p.r_on_ub + k.r) / (x1 * l_lo)) * di_lb;
                 f_lb = x1;
                 f_ub = x2;
             }

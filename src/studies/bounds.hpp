@@ -13,12 +13,12 @@
 // for it); the diode's off-time share is at least 0.75·(1 − D), D the duty with the design's
 // switch and sense drops; the switch duty is at least 0.9·Vo/Vin (where CCM is certain, a pair's
 // own floors from its ramps are taken when higher, but these still stand beneath them); a PWM
-// peak is at least I + 0.9·ΔI/2 where CCM is not certain; in CCM with a capacitor the PWM load
-// ripple is at least an ideal triangle's less curved_ramp_slack. The rest are inequalities:
-// volt-second and charge balance, and each ramp's least and greatest mean and least variance for a
-// time density within a known ratio. tests/studies/bounds_test.cpp checks every bound pointwise
-// against the engine on the starter catalog for the example designs and for variants with a lossy
-// switch or sense resistor.
+// peak is at least I + ΔI/2 less curved_peak_slack where CCM is not certain; in CCM with a
+// capacitor the PWM load ripple is at least an ideal triangle's less curved_ramp_slack. The rest
+// are inequalities: volt-second and charge balance, and each ramp's least and greatest mean and
+// least variance for a time density within a known ratio. tests/studies/bounds_test.cpp checks
+// every bound pointwise against the engine on the starter catalog for the example designs and for
+// variants with a lossy switch or sense resistor.
 
 #include "design/design.hpp"
 #include "optimisation/objectives.hpp"
@@ -36,13 +36,24 @@
 
 namespace coilsieve::studies {
 
-// PWM, for ramps curved by R–L and L(i): where CCM is not certain the peak is at least the mean
-// plus 90 % of ΔI/2 (common practice). Hysteretic control with a capacitor takes it for the load
-// ripple over a duty range wider than duty_ends_width. Within the derated Isat the PWM load p-p
-// stays above 98 % of an ideal triangle's on a sample of starter pairs at the example's supply
-// (BoundsPwm.RampShapeAllowanceCoversTheEnginesLoadRipple), but strongly curved ramps fall far
-// lower (0.67 at R·t/L = 5 and 99.8 % duty): the PWM load ripple takes curved_ramp_slack instead.
+// Hysteretic control with a capacitor: the load ripple over a duty range wider than
+// duty_ends_width is at least 90 % of the triangle's at the range's least end (common practice).
+// Within the derated Isat the PWM load p-p stays above 98 % of an ideal triangle's on a sample of
+// starter pairs at the example's supply (BoundsPwm.RampShapeAllowanceCoversTheEnginesLoadRipple),
+// but strongly curved ramps fall far lower (0.67 at R·t/L = 5 and 99.8 % duty): the PWM load ripple
+// takes curved_ramp_slack instead.
 constexpr double ramp_shape_slack = 0.9;
+
+// PWM where CCM is not certain: the peak is at least the mean plus curved_peak_slack(x)·ΔI/2, x =
+// R·T/L over the whole period (R the series resistance with the load's, L the least inductance).
+// Curved ramps spend longer near the peak, which lifts the mean towards it: over random starter
+// pairs, supplies and frequencies (CCM and DCM corners) (peak − mean)/(ΔI/2) stays above
+// 1 − 0.33·x, down to 0.29 at 99.9 % duty (BoundsPwm.PeakAllowanceCoversCurvedRamps, which fails
+// at 0.3·x); the allowance takes 0.5·x (common practice; measured, not derived).
+constexpr double curved_peak_coefficient = 0.5;
+inline double curved_peak_slack(double x) {
+    return std::isfinite(x) && x >= 0.0 ? std::max(0.0, 1.0 - curved_peak_coefficient * x) : 0.0;
+}
 
 // PWM in CCM with a capacitor: the load's p-p over an ideal triangle's with the same ΔI and duty
 // through the same divider falls as the ramps curve, with x = R·t/L of the longer ramp (R the
@@ -60,7 +71,7 @@ inline double curved_ramp_slack(double x) {
 // the divider at its own frequency and duty, so the bound needs no allowance for curved ramps,
 // only for standing the least of the duty range's two ends for its least: within 0.5 % for a
 // range up to 0.1 wide (LoadRipple.TriangleOverANarrowDutyRangeIsLeastNearAnEnd); a wider range
-// takes ramp_shape_slack.
+// takes ramp_shape_slack. PWM's bound takes the same, times curved_ramp_slack.
 constexpr double duty_ends_slack = 0.995;
 constexpr double duty_ends_width = 0.1;
 

@@ -428,24 +428,21 @@ TEST(BoundsPwm, RampShapeAllowanceCoversTheEnginesLoadRipple) {
     RecordProperty("least_ratio", std::to_string(least));
 }
 
-// The curvature allowance the PWM bound takes in CCM with a capacitor (curved_ramp_slack): over
-// random starter pairs, supplies from 1 V of headroom above the battery's top to 25 V above it,
-// light to heavy capacitors and frequencies over the range, the load's p-p stays above the ideal
-// triangle's (same ΔI, duty and divider) times the allowance at x = R·t/L. x here uses the
-// corner's nominal inductance, the winding's typical DCR and the actual duty and frequency, so it
-// is no larger than the bound's (least L, hottest DCR, duty range, lowest frequency): the check is
-// stricter than the bound needs. Feasible corners only (peak within the derated Isat, CCM).
-TEST(BoundsPwm, CurvedRampAllowanceCoversTheEnginesLoadRipple) {
+// Corners of the charger's design evaluated for random starter pairs at random frequencies, with
+// supplies from 1 V of headroom above the battery's top to 25 V above it and light to heavy
+// capacitors; `check` sees each corner that a feasible pair can have (ok, peak within the derated
+// Isat) with R = the switch, sense, typical DCR and load resistance in series and L the corner's
+// nominal inductance. These underestimate what the bounds take (hottest DCR, least L), so checks
+// against them are stricter than the bounds need.
+template <class Check> void random_charger_corners(int count, unsigned seed, Check&& check) {
     const auto& k = starter();
     Case s("two-cell-charger.json");
-    std::mt19937 rng(11);
+    std::mt19937 rng(seed);
     std::uniform_int_distribution<std::size_t> pick_l(0, k.inductors.size() - 1);
     std::uniform_int_distribution<std::size_t> pick_d(0, k.diodes.size() - 1);
     std::uniform_real_distribution<double> u(0.0, 1.0);
     const double caps[] = {1e-6, 10e-6, 100e-6};
-    std::size_t corners = 0, curved = 0;
-    double needed = 0.0;
-    for (int n = 0; n < 8000; ++n) {
+    for (int n = 0; n < count; ++n) {
         auto d = s.d;
         const double vs = n % 2 ? 8.6 + 1.6 * u(rng) : 8.6 + 25.0 * u(rng);
         d.supply = {vs, vs, vs};
@@ -459,24 +456,61 @@ TEST(BoundsPwm, CurvedRampAllowanceCoversTheEnginesLoadRipple) {
         const auto points = converter::make_corners(d, l.tolerance);
         for (std::size_t c = 0; c < e.corners.size(); ++c) {
             const auto& r = e.corners[c];
-            if (r.status != converter::CornerStatus::ok || r.dcm ||
+            if (r.status != converter::CornerStatus::ok ||
                 r.il_peak > d.limits.isat_derating * l.isat)
                 continue;
-            const auto& oc = *d.output_capacitor;
-            const double tri = converter::triangle_load_ripple(points[c].point.r, oc.capacitance,
-                                                               oc.esr, r.f_sw, r.duty);
-            const double ratio = r.load_ripple_pp / (tri * r.il_ripple_pp);
             const double rs = converter::switch_on_resistance(d.sw, points[c].ambient) +
                               d.sense_resistor + l.dcr_typ + points[c].point.r;
-            const double x =
-                rs * std::max(r.duty, 1.0 - r.duty) / (r.f_sw * l.inductance * points[c].l_scale);
+            check(d, points[c], r, rs, l.inductance * points[c].l_scale,
+                  l.id + " with " + di.id + " at " + r.name + ", " + std::to_string(vs) + " V");
+        }
+    }
+}
+
+// The curvature allowance the PWM bound takes in CCM with a capacitor (curved_ramp_slack): the
+// load's p-p over the ideal triangle's (same ΔI, duty and divider) at x = R·t/L of the longer ramp
+// (the actual duty and frequency; the bound takes the duty range and lowest frequency).
+TEST(BoundsPwm, CurvedRampAllowanceCoversTheEnginesLoadRipple) {
+    std::size_t corners = 0, curved = 0;
+    double needed = 0.0;
+    random_charger_corners(
+        8000, 11,
+        [&](const design::Design& d, const converter::Corner& point,
+            const converter::CornerResult& r, double rs, double l, const std::string& at) {
+            if (r.dcm) return;
+            const auto& oc = *d.output_capacitor;
+            const double tri = converter::triangle_load_ripple(point.point.r, oc.capacitance,
+                                                               oc.esr, r.f_sw, r.duty);
+            const double ratio = r.load_ripple_pp / (tri * r.il_ripple_pp);
+            const double x = rs * std::max(r.duty, 1.0 - r.duty) / (r.f_sw * l);
             ++corners;
             if (x > 0.1) ++curved;
             needed = std::max(needed, (1.0 - ratio) / x);
-            EXPECT_GE(ratio, studies::curved_ramp_slack(x))
-                << l.id << " with " << di.id << " at " << r.name << ", " << vs << " V, x " << x;
-        }
-    }
+            EXPECT_GE(ratio, studies::curved_ramp_slack(x)) << at << ", x " << x;
+        });
+    EXPECT_GT(corners, 20000u);
+    EXPECT_GT(curved, 1000u) << "too few strongly curved ramps to test the allowance";
+    RecordProperty("coefficient_needed", std::to_string(needed));
+}
+
+// The PWM peak where CCM is not certain (curved_peak_slack): (peak − mean)/(ΔI/2) at x = R·T/L
+// over the whole period, CCM and DCM corners alike.
+TEST(BoundsPwm, PeakAllowanceCoversCurvedRamps) {
+    std::size_t corners = 0, curved = 0;
+    double needed = 0.0;
+    random_charger_corners(8000, 12,
+                           [&](const design::Design&, const converter::Corner&,
+                               const converter::CornerResult& r, double rs, double l,
+                               const std::string& at) {
+                               // A duty pinned at 100 % has no ramps left to compare.
+                               if (!(r.il_ripple_pp > 1e-3 * r.il_avg) || r.duty > 0.999) return;
+                               const double ratio = (r.il_peak - r.il_avg) / (0.5 * r.il_ripple_pp);
+                               const double x = rs / (r.f_sw * l);
+                               ++corners;
+                               if (x > 0.1) ++curved;
+                               needed = std::max(needed, (1.0 - ratio) / x);
+                               EXPECT_GE(ratio, studies::curved_peak_slack(x)) << at << ", x " << x;
+                           });
     EXPECT_GT(corners, 20000u);
     EXPECT_GT(curved, 1000u) << "too few strongly curved ramps to test the allowance";
     RecordProperty("coefficient_needed", std::to_string(needed));
