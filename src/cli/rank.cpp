@@ -33,6 +33,7 @@ struct LimitSpec {
 // The design file's limit names (design.hpp Limits) and their meaning.
 constexpr LimitSpec limit_specs[] = {
     {"load_ripple", u::Dimension::ratio, Direction::upper},
+    {"current_error", u::Dimension::ratio, Direction::upper},
     {"f_sw_min", u::Dimension::frequency, Direction::lower},
     {"f_sw_max", u::Dimension::frequency, Direction::upper},
     {"t_on_min", u::Dimension::time, Direction::lower},
@@ -135,10 +136,12 @@ void apply_limit(design::Design& d, std::string_view spec) {
     }
     if (!std::isfinite(v) || (ls->dim != u::Dimension::temperature && v <= 0.0))
         throw UsageError("--limit \"" + text + "\": the value must be positive");
-    if (ls->dim == u::Dimension::ratio && name != "load_ripple" && v > 1.0)
+    if (ls->dim == u::Dimension::ratio && name != "load_ripple" && name != "current_error" &&
+        v > 1.0)
         throw UsageError("--limit \"" + text + "\": " + name + " is a fraction of at most 100 %");
     auto& l = d.limits;
     if (name == "load_ripple") l.load_ripple = v;
+    else if (name == "current_error") l.current_error = v;
     else if (name == "f_sw_min") l.f_sw_min = v;
     else if (name == "f_sw_max") l.f_sw_max = v;
     else if (name == "t_on_min") l.t_on_min = v;

@@ -37,8 +37,8 @@ u::Dimension field_dimension(const std::vector<std::string>& path, const design:
         return u::Dimension::time;
     if (k == "gate_charge") return u::Dimension::charge;
     if (k == "capacity") return u::Dimension::battery_capacity;
-    if (k == "load_ripple" || k == "isat_derating" || k == "vrrm_derating" ||
-        k == "diode_current_derating" || k == "efficiency_min")
+    if (k == "load_ripple" || k == "current_error" || k == "isat_derating" ||
+        k == "vrrm_derating" || k == "diode_current_derating" || k == "efficiency_min")
         return u::Dimension::ratio;
     if (k == "tj_max" || k == "t_inductor_max") return u::Dimension::temperature;
     if (k == "height_max") return u::Dimension::length;

@@ -172,6 +172,16 @@ PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
                        ") exceeds the limit " + b + at(cn);
             });
         }
+        if (lim.current_error) {
+            const double error = std::abs(r.regulation_error);
+            check.upper("current_error", cn, error, *lim.current_error, [&] {
+                const auto [v, b] = apart(error, *lim.current_error, Dimension::ratio);
+                return "average load current " + fmt(r.load_i_avg, Dimension::current) + " is " +
+                       v + (r.regulation_error < 0.0 ? " below" : " above") + " its target " +
+                       fmt(c.point.current, Dimension::current) + ", more than the limit " + b +
+                       at(cn);
+            });
+        }
         check.lower("f_sw_min", cn, r.f_sw, lim.f_sw_min, [&] {
             const auto [v, b] = apart(r.f_sw, lim.f_sw_min, Dimension::frequency);
             return "switching frequency " + v + " is below the minimum " + b + at(cn);

@@ -60,8 +60,11 @@ struct Limits {
     std::optional<double> f_sw_max;    // Hz
     // The controller's minimum on-time and off-time (its datasheet's figures). Either way the
     // switch needs at least its rise plus fall time to switch fully (converter/pair.cpp).
-    std::optional<double> t_on_min;       // s
-    std::optional<double> t_off_min;      // s
+    std::optional<double> t_on_min;  // s
+    std::optional<double> t_off_min; // s
+    // |average load current − target|/target at every corner: hysteretic control sets the average
+    // only through the thresholds, the delay and the ramps' shape.
+    std::optional<double> current_error;  // fraction
     double isat_derating = 0.8;           // peak <= derating * Isat (common practice)
     double vrrm_derating = 0.8;           // reverse voltage <= derating * Vrrm (common practice)
     double diode_current_derating = 0.8;  // diode average <= derating * If(AV) (common practice)

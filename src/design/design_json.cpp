@@ -581,12 +581,14 @@ private:
         const std::string p = "limits";
         check_object(v, p, "of limits");
         check_keys(v, p,
-                   {"load_ripple", "f_sw_min", "f_sw_max", "t_on_min", "t_off_min", "isat_derating",
-                    "vrrm_derating", "diode_current_derating", "tj_max", "t_inductor_max",
-                    "height_max", "footprint_max", "efficiency_min"});
+                   {"load_ripple", "current_error", "f_sw_min", "f_sw_max", "t_on_min", "t_off_min",
+                    "isat_derating", "vrrm_derating", "diode_current_derating", "tj_max",
+                    "t_inductor_max", "height_max", "footprint_max", "efficiency_min"});
         Limits l;
         if (const json* x = find(v, "load_ripple"))
             l.load_ripple = positive(*x, "limits.load_ripple", Dimension::ratio);
+        if (const json* x = find(v, "current_error"))
+            l.current_error = positive(*x, "limits.current_error", Dimension::ratio);
         if (const json* x = find(v, "f_sw_min"))
             l.f_sw_min = positive(*x, "limits.f_sw_min", Dimension::frequency);
         if (const json* x = find(v, "f_sw_max"))
@@ -868,6 +870,7 @@ json to_json(const Design& d) {
     json lim = json::object();
     const Limits& l = d.limits;
     if (l.load_ripple) lim["load_ripple"] = *l.load_ripple;
+    if (l.current_error) lim["current_error"] = *l.current_error;
     lim["f_sw_min"] = l.f_sw_min;
     if (l.f_sw_max) lim["f_sw_max"] = *l.f_sw_max;
     if (l.t_on_min) lim["t_on_min"] = *l.t_on_min;

@@ -120,7 +120,8 @@ Dimension limit_dimension(const std::string& limit) {
         {"tj_max", Dimension::temperature},   {"efficiency_min", Dimension::ratio},
         {"height_max", Dimension::length},    {"footprint_max", Dimension::area},
         {"regulation", Dimension::ratio},     {"srf", Dimension::frequency},
-        {"t_on_min", Dimension::time},        {"t_off_min", Dimension::time}};
+        {"t_on_min", Dimension::time},        {"t_off_min", Dimension::time},
+        {"current_error", Dimension::ratio}};
     const auto it = dims.find(limit);
     return it == dims.end() ? Dimension::dimensionless : it->second;
 }

@@ -299,6 +299,11 @@ public:
                 i_lb = current_slack *
                        std::max(0.0, i_target + skew_lo / (skew_lo < 0.0 ? l_lo : l_hi));
                 i_ub = (i_target + std::max(0.0, skew_hi) / l_lo) / current_slack;
+                // A limit on the current's error holds exactly for a feasible pair.
+                if (const auto& e = d_.limits.current_error) {
+                    i_lb = std::max(i_lb, (1.0 - *e) * i_target);
+                    i_ub = std::min(i_ub, (1.0 + *e) * i_target);
+                }
                 // In CCM each ramp is monotone with time density dt/di = L(i)/|v_L(i)| within
                 // known limits, so its mean is at least valley + h·ΔI (ramp_mean_share); the
                 // cycle's mean is a blend of its two ramps' means.

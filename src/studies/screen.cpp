@@ -61,7 +61,10 @@ double ripple_ceiling(const ScreenContext& c, const EnvelopeCorner& k, double l_
 } // namespace
 
 double average_current_share(const design::Design& d) {
-    return d.control.mode == design::ControlMode::hysteretic ? current_slack : pwm_current_share;
+    if (d.control.mode != design::ControlMode::hysteretic) return pwm_current_share;
+    // With a limit on the current's error, a feasible pair's average is at least 1 − that.
+    return d.limits.current_error ? std::max(current_slack, 1.0 - *d.limits.current_error)
+                                  : current_slack;
 }
 
 bool hysteretic(const ScreenContext& c) {

@@ -154,8 +154,12 @@ TEST_F(RankCli, LimitsTakeInclusiveBoundsOrTheDesignFilesNames) {
     const auto j = nlohmann::json::parse(r.out);
     EXPECT_DOUBLE_EQ(j["design"]["limits"]["height_max"].get<double>(), 0.003);
     // The controller's minimum pulses, in time units; a maximum is the wrong direction.
-    ASSERT_NE(run(rank + "--study p --limit 't_on_min>=150ns' --limit 't_off_min=0.1us'").code, 2);
+    ASSERT_NE(run(rank + "--study p --limit 't_on_min>=150ns' --limit 't_off_min=0.1us' " +
+                  "--limit 'current_error<=2%'")
+                  .code,
+              2);
     const auto p = nlohmann::json::parse(run("study show p --json").out);
+    EXPECT_DOUBLE_EQ(p["design"]["limits"]["current_error"].get<double>(), 0.02);
     EXPECT_DOUBLE_EQ(p["design"]["limits"]["t_on_min"].get<double>(), 150e-9);
     EXPECT_DOUBLE_EQ(p["design"]["limits"]["t_off_min"].get<double>(), 100e-9);
     const Outcome wrong = run(rank + "--no-save --limit 't_on_min<=150ns'");

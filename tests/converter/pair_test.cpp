@@ -289,6 +289,47 @@ TEST(PairLimits, PulsesShorterThanTheSwitchOrControllerAllowsAreBroken) {
     EXPECT_EQ(broken(d, 10e6, "t_on_min"), "");
 }
 
+// Hysteretic control sets the average only through its thresholds: the comparator's delay t_d lets
+// the current run on past each threshold at the ramp's slope (V = L·di/dt), to I_hi + t_d·V_on/L
+// and I_lo − t_d·V_off/L, so a near-triangular cycle's mean sits t_d·(V_on − V_off)/(2L) above the
+// target (derived from the inductor law; Erickson & Maksimović 2nd ed., ch. 2 for the ramps).
+// The limit current_error holds |I_avg − I|/I at every corner.
+TEST(PairLimits, HystereticCurrentErrorFollowsTheDelayAndIsLimited) {
+    auto d = led_design();
+    const auto l = inductor();
+    const auto di = diode();
+    Setting s;
+    s.band = 0.1;
+    d.control.delay = 0.0;
+    for (const auto& c : evaluate_pair(d, l, di, s).corners)
+        EXPECT_LT(std::abs(c.regulation_error), 0.005) << c.name; // no delay: no skew to speak of
+    d.control.delay = 300e-9;
+    const auto e = evaluate_pair(d, l, di, s);
+    const auto corners = make_corners(d, l.tolerance);
+    double worst = 0.0;
+    for (std::size_t k = 0; k < corners.size(); ++k) {
+        const auto& r = e.corners[k];
+        ASSERT_EQ(r.status, CornerStatus::ok) << r.name;
+        const double i = corners[k].point.current;
+        const double vo = corners[k].point.v0 + corners[k].point.r * i;
+        const double drops = i * (d.sense_resistor + l.dcr_typ);
+        const double von = r.vin - vo - drops - i * switch_on_resistance(d.sw, r.ambient);
+        const double voff = vo + drops + di.spice->n * 0.0259 * std::log(i / di.spice->is);
+        const double skew = 300e-9 * (von - voff) / (2.0 * l.inductance * corners[k].l_scale * i);
+        EXPECT_NEAR(r.regulation_error, skew, 0.15 * std::abs(skew) + 0.001) << r.name;
+        worst = std::max(worst, std::abs(r.regulation_error));
+    }
+    ASSERT_GT(worst, 0.01);
+    auto broken = [&](double limit) {
+        d.limits.current_error = limit;
+        const auto ev = evaluate_pair(d, l, di, s);
+        return std::any_of(ev.violations.begin(), ev.violations.end(),
+                           [](const LimitCheck& c) { return c.limit == "current_error"; });
+    };
+    EXPECT_TRUE(broken(0.5 * worst));
+    EXPECT_FALSE(broken(1.01 * worst));
+}
+
 } // namespace coilsieve::converter
 
 namespace coilsieve::converter {

@@ -129,6 +129,7 @@ void expect_same(const Design& a, const Design& b) {
     EXPECT_EQ(a.limits.tj_max, b.limits.tj_max);
     EXPECT_EQ(a.limits.t_inductor_max, b.limits.t_inductor_max);
     EXPECT_EQ(a.limits.t_on_min, b.limits.t_on_min);
+    EXPECT_EQ(a.limits.current_error, b.limits.current_error);
     EXPECT_EQ(a.limits.t_off_min, b.limits.t_off_min);
     EXPECT_EQ(a.limits.height_max, b.limits.height_max);
     EXPECT_EQ(a.limits.footprint_max, b.limits.footprint_max);
@@ -232,6 +233,7 @@ TEST(DesignFile, RoundTripIsExact) {
     amps["limits"]["footprint_max"] = "60mm2";
     amps["limits"]["efficiency_min"] = "87.5%";
     amps["limits"]["t_on_min"] = "150ns";
+    amps["limits"]["current_error"] = "3%";
     amps["limits"]["t_off_min"] = "0.2us";
     EXPECT_EQ(read_design(amps, "rt.json").limits.t_off_min, 200e-9);
     amps["pareto"] = {"loss", "ripple", "margin"};
@@ -314,6 +316,7 @@ TEST(DesignFile, MalformedFieldsAreNamed) {
         {[](json& j) { j["ambient"]["min"] = "-60C"; }, "ambient.min", "-55 °C to 150 °C"},
         {[](json& j) { j["limits"]["f_sw_min"] = "2MHz"; }, "limits.f_sw_min", "f_sw_max"},
         {[](json& j) { j["limits"]["t_on_min"] = "100nA"; }, "limits.t_on_min", "time"},
+        {[](json& j) { j["limits"]["current_error"] = "5mA"; }, "limits.current_error", ""},
         {[](json& j) { j["limits"]["t_off_min"] = "-5ns"; }, "limits.t_off_min", ""},
         // 30 µs + 25 µs of pulses do not fit in the longest period 1/20 kHz = 50 µs.
         {[](json& j) {
