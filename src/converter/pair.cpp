@@ -108,9 +108,9 @@ PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
 
     PairEvaluation e;
     e.corners.reserve(corners.size());
-    // One reverse-voltage check, up to twelve per corner, efficiency, heights and footprint: no
+    // One reverse-voltage check, up to thirteen per corner, efficiency, heights and footprint: no
     // regrowth on the optimiser's hot path.
-    e.checks.reserve(1 + 12 * corners.size() + 4);
+    e.checks.reserve(1 + 13 * corners.size() + 4);
     for (const Corner& c : corners)
         e.corners.push_back(evaluate_corner(d, lm, dm, c, corner_setting(d, c, s)));
 
