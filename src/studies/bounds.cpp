@@ -74,6 +74,7 @@ public:
         peak_cap_ = lim.isat_derating * m.isat;
         t_l_bound_ = lim.t_inductor_max ? std::min(m.t_max, *lim.t_inductor_max) : m.t_max;
         const double dcr_ub = m.dcr(std::max(t_l_bound_, 0.0), true);
+        dcr_ub_ = dcr_ub;
         const double cap = d_.output_capacitor ? d_.output_capacitor->capacitance : 0.0;
         for (const auto& k : corners_) {
             CornerParts p;
@@ -124,13 +125,17 @@ public:
     // above the current the junction tables take: V_f·i is convex and V_f rises with i, so
     // the conduction loss is at least V_f(I_k)·mean_off, which the tables give as a share of the
     // period scaled by mean_off/I_k. What this adds to the diode's heating floor, which assumes
-    // only EnvelopeCorner::off_share at I_k (diode_bound): the same junction balance.
+    // only EnvelopeCorner::off_share at I_k (diode_bound): the same junction balance. That share
+    // takes the largest winding of the inductors paired; this pair's own winding gives at least
+    // off_share_with its DCR, CCM certain or not.
     double diode_excess(const EnvelopeCorner& k, double valley_lb, double von_lb, double voff_ub,
                         double mean_off) const {
-        if (diode_ == nullptr || diode_bound_ == nullptr || !(valley_lb > 0.0) || !(von_lb > 0.0) ||
-            k.vin <= 0.0 || k.current <= 0.0)
+        if (diode_ == nullptr || diode_bound_ == nullptr || k.vin <= 0.0 || k.current <= 0.0)
             return 0.0;
-        const double off = von_lb / (von_lb + voff_ub) * std::max(1.0, mean_off / k.current_lb());
+        double off = off_share_with(d_, k, dcr_ub_);
+        if (valley_lb > 0.0 && von_lb > 0.0)
+            off = std::max(off,
+                           von_lb / (von_lb + voff_ub) * std::max(1.0, mean_off / k.current_lb()));
         const double floor_off = k.off_share;
         if (!(off > floor_off)) return 0.0;
         for (const auto& b : diode_bound_->nominal)
@@ -638,6 +643,7 @@ private:
     std::vector<CornerParts> parts_;
     double peak_cap_ = 0.0;
     double t_l_bound_ = 0.0;
+    double dcr_ub_ = 0.0; // Ω, the winding at its temperature limit
 };
 
 } // namespace

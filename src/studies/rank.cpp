@@ -177,7 +177,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
     counts.pairs_total = counts.inductors * counts.diodes;
 
     // Prepare, screen and bound every part once.
-    const ScreenContext ctx = make_screen_context(d, res.range);
+    ScreenContext ctx = make_screen_context(d, res.range);
     struct LPrep {
         std::vector<ScreenReason> reasons;
         InductorBound bound;
@@ -222,6 +222,17 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
             lprep[k].reasons.push_back({"model", "", 0, 0, e.what()});
         }
     });
+    // The diodes' floors and screens take the largest winding resistance among the inductors
+    // left (EnvelopeCorner::off_share): near dropout it decides how little the diode carries.
+    {
+        double r_w = 0.0;
+        for (const auto& p : lprep)
+            if (p.reasons.empty() && p.model)
+                r_w = std::max(r_w, winding_resistance_max(d, *p.model));
+        set_winding_resistance(ctx, r_w);
+        corner_sets.clear();
+        for (const double t : tolerances) corner_sets.push_back(part_corners(ctx, t));
+    }
     workers.run(dprep.size(), [&](std::size_t k) {
         const auto& part = diodes[res.diodes_used[k]];
         try {

@@ -186,19 +186,23 @@ double volt_second_rate(double von, double voff) {
     return von + voff > 0.0 ? von * voff / (von + voff) : 0.0;
 }
 
+double off_share_with(const design::Design& d, const EnvelopeCorner& e, double winding) {
+    if (!(e.vin > 0.0)) return 0.0;
+    const double i = e.current;
+    const double on = e.vin - i * converter::switch_on_resistance(d.sw, e.ambient);
+    const double duty =
+        on > 0.0 ? (e.v0 + e.r * i + i * (std::max(0.0, d.sense_resistor) + winding)) / on : 1.0;
+    return duty_slack * (1.0 - std::clamp(duty, 0.0, 1.0));
+}
+
 namespace {
 
-EnvelopeCorner envelope_corner(const design::Design& d, const converter::Corner& k) {
+EnvelopeCorner envelope_corner(const design::Design& d, const converter::Corner& k,
+                               double winding) {
     EnvelopeCorner e{
         k.name,    k.vin,     k.point.v0, k.point.r, k.point.current,         k.ambient,
         k.l_scale, k.dcr_max, k.nominal,  k.weight,  average_current_share(d)};
-    if (e.vin > 0.0) {
-        const double i = e.current;
-        const double on = e.vin - i * converter::switch_on_resistance(d.sw, e.ambient);
-        const double duty =
-            on > 0.0 ? (e.v0 + e.r * i + i * std::max(0.0, d.sense_resistor)) / on : 1.0;
-        e.off_share = duty_slack * (1.0 - std::clamp(duty, 0.0, 1.0));
-    }
+    e.off_share = off_share_with(d, e, winding);
     return e;
 }
 
@@ -207,8 +211,19 @@ EnvelopeCorner envelope_corner(const design::Design& d, const converter::Corner&
 std::vector<EnvelopeCorner> part_corners(const ScreenContext& c, double tolerance) {
     std::vector<EnvelopeCorner> out;
     for (const auto& k : converter::make_corners(*c.design, tolerance))
-        out.push_back(envelope_corner(*c.design, k));
+        out.push_back(envelope_corner(*c.design, k, c.winding_resistance));
     return out;
+}
+
+double winding_resistance_max(const design::Design& d, const parts::InductorModel& m) {
+    const double t =
+        d.limits.t_inductor_max ? std::min(m.t_max, *d.limits.t_inductor_max) : m.t_max;
+    return std::max(0.0, m.dcr(std::max(t, 0.0), true));
+}
+
+void set_winding_resistance(ScreenContext& c, double r) {
+    c.winding_resistance = std::max(0.0, r);
+    for (auto& e : c.corners) e.off_share = off_share_with(*c.design, e, c.winding_resistance);
 }
 
 ScreenContext make_screen_context(const design::Design& d, const optimisation::SettingRange& r) {
@@ -216,7 +231,7 @@ ScreenContext make_screen_context(const design::Design& d, const optimisation::S
     c.design = &d;
     c.range = r;
     for (const auto& k : converter::make_corners(d, 0.0)) {
-        EnvelopeCorner e = envelope_corner(d, k);
+        EnvelopeCorner e = envelope_corner(d, k, c.winding_resistance);
         c.vin_max = std::max(c.vin_max, e.vin);
         c.i_max = std::max(c.i_max, e.current);
         c.corners.push_back(std::move(e));

@@ -29,9 +29,10 @@ struct ScreenReason {
 // Allowances shared by the screens and the bounds (engineering margins, common practice):
 // under hysteretic control the average current of a feasible pair is at least current_slack of
 // its target (the thresholds set it only through the ramps' shape, the delay and DCM); the diode
-// conducts for at least duty_slack·(1 − D) of the period, D the duty with the design's own switch
-// and sense drops (EnvelopeCorner::off_share; the slack is for the diode's drop, the winding's
-// and DCM); a diode drops at most diode_drop_max.
+// carries at least duty_slack·(1 − D) of the charge, D the duty with the design's own switch and
+// sense drops and the largest winding paired (EnvelopeCorner::off_share; the slack is for the
+// diode's drop, DCM and the ramps: BoundsJunction.DiodeChargeShareCoversFeasiblePairs finds 0.89
+// at least); a diode drops at most diode_drop_max.
 constexpr double current_slack = 0.97;
 constexpr double pwm_current_share = 1.0 - 1e-6;
 constexpr double duty_slack = 0.75;
@@ -56,9 +57,11 @@ struct EnvelopeCorner {
     // (converter/steady_state.cpp), so only the solver's tolerance, pwm_current_share.
     double current_share = current_slack;
     double current_lb() const { return current_share * current; }
-    // The share of the period the diode conducts for at least: duty_slack·(1 − D) with
-    // D = (V_load + I·R_sense)/(Vin − I·R_on), the CCM duty before the diode's and the winding's
-    // drops, which only lengthen the on-time (Erickson & Maksimović 2nd ed. ch. 2).
+    // The share of the charge the diode carries at least: duty_slack·(1 − D) with
+    // D = (V_load + I·(R_sense + R_w))/(Vin − I·R_on), the CCM duty with the winding's largest
+    // resistance R_w (ScreenContext::winding_resistance) and before the diode's drop, which only
+    // lengthens the on-time (Erickson & Maksimović 2nd ed. ch. 2). Near dropout the winding's drop
+    // is most of the headroom, and the diode carries next to nothing.
     double off_share = 0.0;
 };
 
@@ -73,7 +76,16 @@ struct ScreenContext {
     double ron_hot = 0.0;    // switch on-resistance at 175 °C junction (upper bound)
     double loss_floor = 0.0; // W: sense-resistor and switch conduction loss no pair avoids,
                              // at the nominal corner(s) as the loss objective weighs them
+    double winding_resistance = 0.0; // Ω: the largest DCR of the inductors paired (off_share)
 };
+
+// EnvelopeCorner::off_share with a winding resistance `winding` (Ω).
+double off_share_with(const design::Design& d, const EnvelopeCorner& e, double winding);
+// The largest DCR a feasible pair's winding can have: at its temperature limit, maximum DCR.
+double winding_resistance_max(const design::Design& d, const parts::InductorModel& m);
+// Takes the largest winding resistance of the inductors to be paired into every corner's
+// off_share (the corners part_corners makes from `c` too).
+void set_winding_resistance(ScreenContext& c, double r);
 
 bool hysteretic(const ScreenContext& c);
 
