@@ -32,10 +32,10 @@ struct ScreenReason {
 // carries at least duty_slack·(1 − D) of the charge, D the duty with the design's own switch and
 // sense drops and the largest winding paired (EnvelopeCorner::off_share; the slack is for the
 // diode's drop, DCM and the ramps: BoundsJunction.DiodeChargeShareCoversFeasiblePairs finds 0.89
-// at least); a diode drops at most diode_drop_max.
+// at least; 0.75 before the winding was taken); a diode drops at most diode_drop_max.
 constexpr double current_slack = 0.97;
 constexpr double pwm_current_share = 1.0 - 1e-6;
-constexpr double duty_slack = 0.75;
+constexpr double duty_slack = 0.8;
 constexpr double diode_drop_max = 3.0; // V
 // The share of its target the average current is at least, for this design's control.
 double average_current_share(const design::Design& d);
