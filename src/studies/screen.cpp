@@ -62,9 +62,9 @@ double ripple_ceiling(const ScreenContext& c, const EnvelopeCorner& k, double l_
 
 double average_current_share(const design::Design& d) {
     if (d.control.mode != design::ControlMode::hysteretic) return pwm_current_share;
-    // With a limit on the current's error, a feasible pair's average is at least 1 − that.
-    return d.limits.current_error ? std::max(current_slack, 1.0 - *d.limits.current_error)
-                                  : current_slack;
+    // With a limit on the current's error a feasible pair's average is at least 1 − that: a fact,
+    // taken in place of the allowance (which a wide band with a long delay can break).
+    return d.limits.current_error ? std::max(0.0, 1.0 - *d.limits.current_error) : current_slack;
 }
 
 bool hysteretic(const ScreenContext& c) {
