@@ -48,6 +48,24 @@ constexpr LimitSpec limit_specs[] = {
     {"efficiency_min", u::Dimension::ratio, Direction::lower},
 };
 
+// Short names for the command line: `short<=` or `short>=` stands for the design name. They take
+// no `=`, which could read as "exactly".
+struct ShortLimit {
+    std::string_view short_name;
+    Direction dir;
+    std::string_view name;
+};
+constexpr ShortLimit short_limits[] = {
+    {"height", Direction::upper, "height_max"},
+    {"footprint", Direction::upper, "footprint_max"},
+    {"f_sw", Direction::upper, "f_sw_max"},
+    {"f_sw", Direction::lower, "f_sw_min"},
+    {"efficiency", Direction::lower, "efficiency_min"},
+    {"tj", Direction::upper, "tj_max"},
+    {"ripple", Direction::upper, "load_ripple"},
+    {"t_inductor", Direction::upper, "t_inductor_max"},
+};
+
 std::string trim(std::string_view s) {
     const auto b = s.find_first_not_of(" \t");
     if (b == std::string_view::npos) return "";
@@ -62,9 +80,8 @@ std::string fmt(double v, u::Dimension d) { return u::format(v, d); }
 std::vector<std::string> limit_names() {
     std::vector<std::string> v;
     for (const auto& s : limit_specs) v.emplace_back(s.name);
-    for (const char* s :
-         {"height<=", "footprint<=", "f_sw<=", "f_sw>=", "efficiency>=", "tj<=", "ripple<="})
-        v.emplace_back(s);
+    for (const auto& s : short_limits)
+        v.push_back(std::string(s.short_name) + (s.dir == Direction::upper ? "<=" : ">="));
     return v;
 }
 
@@ -92,27 +109,16 @@ void apply_limit(design::Design& d, std::string_view spec) {
     if (vpos < text.size() && std::string_view("<>=").find(text[vpos]) != std::string_view::npos)
         throw UsageError("--limit \"" + text + "\": " + forms);
     // "height=3mm" could read as "exactly 3 mm": `=` sets a design file's limit, named as there.
-    const bool short_name = name == "height" || name == "footprint" || name == "efficiency" ||
-                            name == "tj" || name == "ripple" || name == "t_inductor";
-    if (op == Direction::either && short_name)
+    const ShortLimit* short_form = nullptr;
+    for (const auto& s : short_limits)
+        if (s.short_name == name && (short_form == nullptr || s.dir == op)) short_form = &s;
+    if (op == Direction::either && short_form != nullptr)
         throw UsageError("--limit \"" + text +
                          "\": NAME=VALUE takes a design file's limit name, and " + name +
                          " is not one; " + forms);
     const std::string value = trim(text.substr(vpos));
-    // Short forms.
-    if (name == "height") name = "height_max";
-    else if (name == "footprint") name = "footprint_max";
-    else if (name == "efficiency") name = "efficiency_min";
-    else if (name == "tj") name = "tj_max";
-    else if (name == "ripple") name = "load_ripple";
-    else if (name == "t_inductor") name = "t_inductor_max";
-    else if (name == "f_sw") {
-        if (op == Direction::either)
-            throw UsageError("--limit \"" + text +
-                             "\": say f_sw<=VALUE (maximum) or f_sw>=VALUE "
-                             "(minimum)");
-        name = op == Direction::upper ? "f_sw_max" : "f_sw_min";
-    }
+    // A short form of the other direction falls to the direction check below.
+    if (short_form != nullptr) name = std::string(short_form->name);
     const LimitSpec* ls = nullptr;
     for (const auto& s : limit_specs)
         if (s.name == name) ls = &s;

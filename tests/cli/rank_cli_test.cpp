@@ -162,6 +162,15 @@ TEST_F(RankCli, LimitsTakeInclusiveBoundsOrTheDesignFilesNames) {
     EXPECT_DOUBLE_EQ(p["design"]["limits"]["current_error"].get<double>(), 0.02);
     EXPECT_DOUBLE_EQ(p["design"]["limits"]["t_on_min"].get<double>(), 150e-9);
     EXPECT_DOUBLE_EQ(p["design"]["limits"]["t_off_min"].get<double>(), 100e-9);
+    // Every short form the unknown-name message lists works, and none takes `=`.
+    ASSERT_NE(run(rank + "--study s --limit 't_inductor<=90C' --limit 'f_sw>=100kHz'").code, 2);
+    const auto sh = nlohmann::json::parse(run("study show s --json").out);
+    EXPECT_DOUBLE_EQ(sh["design"]["limits"]["t_inductor_max"].get<double>(), 90.0); // in °C
+    EXPECT_DOUBLE_EQ(sh["design"]["limits"]["f_sw_min"].get<double>(), 100e3);
+    const Outcome listed = run(rank + "--no-save --limit 'bogus<=1'");
+    EXPECT_TRUE(has(listed.err, "t_inductor<=")) << listed.err;
+    EXPECT_TRUE(has(listed.err, "f_sw>=")) << listed.err;
+    EXPECT_TRUE(has(run(rank + "--no-save --limit 'f_sw=500kHz'").err, "NAME=VALUE"));
     const Outcome wrong = run(rank + "--no-save --limit 't_on_min<=150ns'");
     EXPECT_EQ(wrong.code, 2);
     EXPECT_TRUE(has(wrong.err, "t_on_min>=VALUE")) << wrong.err;
