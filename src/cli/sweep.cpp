@@ -158,12 +158,17 @@ SweepSpec parse_sweep(std::string_view text, const design::Design& d) {
     s.path = split_path(t.substr(0, eq));
     const nlohmann::json j = design::to_json(d);
     const nlohmann::json* field = find(j, s.path);
+    // A limit the file leaves out (each is optional) is set at every step.
+    const bool absent_limit = field == nullptr && s.path.size() == 2 &&
+                              s.path.front() == "limits" &&
+                              field_dimension(s.path, d) != u::Dimension::dimensionless;
     // A string is a quantity with units (a band in amperes, a temperature in kelvin) only where
     // the field has a dimension; load.type or control.mode are words.
     const bool numeric =
-        field != nullptr && s.path.front() != "name" &&
-        (field->is_number() ||
-         (field->is_string() && field_dimension(s.path, d) != u::Dimension::dimensionless));
+        absent_limit ||
+        (field != nullptr && s.path.front() != "name" &&
+         (field->is_number() ||
+          (field->is_string() && field_dimension(s.path, d) != u::Dimension::dimensionless)));
     if (!numeric) {
         std::string fields;
         for (const char* f : {"supply.min", "supply.nom", "supply.max", "load.current",
@@ -193,7 +198,7 @@ SweepSpec parse_sweep(std::string_view text, const design::Design& d) {
     if (s.steps < 2 || s.steps > 200)
         throw UsageError("--vary \"" + t + "\": STEPS must be between 2 and 200");
     // A count (LEDs, cells) takes whole numbers only: a step between them would be rounded.
-    if (field->is_number_integer()) {
+    if (field != nullptr && field->is_number_integer()) {
         for (int i = 0; i < s.steps; ++i) {
             const double v = step_value(s, i);
             if (std::abs(v - std::round(v)) > 1e-9)

@@ -170,6 +170,20 @@ TEST_F(SweepCli, AWholeNumberFieldTakesWholeStepsOnly) {
     EXPECT_EQ(j["steps"][1]["value"].get<double>(), 4.0);
 }
 
+// Every limit is optional: one the design file leaves out can still be varied, set at each step.
+TEST_F(SweepCli, ALimitTheFileLeavesOutCanBeVaried) {
+    const Outcome r =
+        run("sweep '" + design_ + "' --source hand --vary limits.t_on_min=50ns..150ns:2 --json");
+    ASSERT_EQ(r.code, 0) << r.err;
+    const json j = json::parse(r.out);
+    ASSERT_EQ(j["steps"].size(), 2u);
+    EXPECT_DOUBLE_EQ(j["steps"][0]["value"].get<double>(), 50e-9);
+    EXPECT_DOUBLE_EQ(j["steps"][1]["value"].get<double>(), 150e-9);
+    const Outcome bad = run("sweep '" + design_ + "' --source hand --vary limits.colour=1..2:2");
+    EXPECT_EQ(bad.code, 2);
+    EXPECT_NE(bad.err.find("no numeric field \"limits.colour\""), std::string::npos) << bad.err;
+}
+
 // A fixed band given as a share of the target current is that share at every step of a current
 // sweep (15 % of 0.35 A, then of 0.7 A), not the first step's amperes carried along.
 TEST_F(SweepCli, ABandShareFollowsEachStepsCurrent) {
