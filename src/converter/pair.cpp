@@ -123,11 +123,9 @@ PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
     const double vr_bound = lim.vrrm_derating * diode.vrrm;
     const double id_bound = lim.diode_current_derating * diode.if_avg;
     const std::string pct_isat = fmt(lim.isat_derating, Dimension::ratio);
-    // A switch needs its rise plus fall time to turn fully on and off again: shorter pulses never
-    // reach the states the waveform and loss models assume. A controller has its own minimums.
-    const double transitions = std::max(0.0, d.sw.rise_time) + std::max(0.0, d.sw.fall_time);
-    const double t_on_bound = std::max(lim.t_on_min.value_or(0.0), transitions);
-    const double t_off_bound = std::max(lim.t_off_min.value_or(0.0), transitions);
+    // Shorter pulses never reach the states the waveform and loss models assume.
+    const double t_on_bound = design::shortest_on_time(d);
+    const double t_off_bound = design::shortest_off_time(d);
     auto pulse_source = [&](const std::optional<double>& given, double bound) {
         return given && *given >= bound ? std::string(" (the controller's minimum)")
                                         : std::string(" (the switch's rise plus fall time)");

@@ -338,6 +338,7 @@ struct Wave2 {
     double q_on = 0.0, q2_on = 0.0, q_off = 0.0, q2_off = 0.0;
     double load_min = 0.0, load_max = 0.0, load_q2 = 0.0, cap_q2 = 0.0; // ∫ over the period
     double v_peak = 0.0; // capacitor voltage at the peak (the off interval's start)
+    double e1i = 0.0, e1v = 0.0, e2i = 0.0, e2v = 0.0; // the on and off intervals' equilibria
 };
 // The load current's extremes inside one interval of a two-state cycle: where its slope g·u'
 // is zero, u(τ) = e^{Aτ}·u0 relative to the equilibrium (g the load's gradient over the state).
@@ -405,6 +406,10 @@ Wave2 pwm_wave2(const Lin2& on, const Lin2& off, double period, double d) {
     double e1i, e1v, e2i, e2v;
     equilibrium(on, e1i, e1v);
     equilibrium(off, e2i, e2v);
+    w.e1i = e1i;
+    w.e1v = e1v;
+    w.e2i = e2i;
+    w.e2v = e2v;
     // x0 = e2 + P2·(e1 + P1·(x0 − e1) − e2) => (I − P2·P1)·x0 = e2 − P2·e2 + P2·e1 − P2·P1·e1.
     const Mat2 m{p2.m11 * p1.m11 + p2.m12 * p1.m21, p2.m11 * p1.m12 + p2.m12 * p1.m22,
                  p2.m21 * p1.m11 + p2.m22 * p1.m21, p2.m21 * p1.m12 + p2.m22 * p1.m22};
@@ -430,9 +435,7 @@ Wave2 pwm_wave2(const Lin2& on, const Lin2& off, double period, double d) {
 void pwm_squares(Wave2& w, const Lin2& on, const Lin2& off, const Output2& o, double period,
                  double d) {
     const double t1 = d * period, t2 = period - t1;
-    double e1i, e1v, e2i, e2v;
-    equilibrium(on, e1i, e1v);
-    equilibrium(off, e2i, e2v);
+    const double e1i = w.e1i, e1v = w.e1v, e2i = w.e2i, e2v = w.e2v;
     const double xi1 = w.i_peak, xv1 = w.v_peak;
     // The squares exactly: with u = x − x* (u' = A·u), ∫u dt = A⁻¹·(u1 − u0) and X = ∫u·uᵀ dt
     // solves the Lyapunov equation A·X + X·Aᵀ = u1·u1ᵀ − u0·u0ᵀ (A is stable: its resistances
@@ -477,13 +480,10 @@ void pwm_squares(Wave2& w, const Lin2& on, const Lin2& off, const Output2& o, do
 double load_crests(const Wave2& x, const Lin2& on, const Lin2& off, const Output2& o, double period,
                    double d) {
     const double gi = o.beta / o.r, gv = o.alpha / o.r; // ∂i_load/∂i_L, ∂i_load/∂v_C
-    double e1i, e1v, e2i, e2v;
-    equilibrium(on, e1i, e1v);
-    equilibrium(off, e2i, e2v);
     double lo = x.load_min, hi = x.load_max;
-    interval_crests(on, gi, gv, o, e1i, e1v, x.i0 - e1i, x.v0 - e1v, d * period, lo, hi);
-    interval_crests(off, gi, gv, o, e2i, e2v, x.i_peak - e2i, x.v_peak - e2v, (1.0 - d) * period,
-                    lo, hi);
+    interval_crests(on, gi, gv, o, x.e1i, x.e1v, x.i0 - x.e1i, x.v0 - x.e1v, d * period, lo, hi);
+    interval_crests(off, gi, gv, o, x.e2i, x.e2v, x.i_peak - x.e2i, x.v_peak - x.e2v,
+                    (1.0 - d) * period, lo, hi);
     return hi - lo;
 }
 
@@ -848,12 +848,11 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
         // Diode V_f at five currents over the present ripple (the fit and Simpson's rule share
         // them), from the SPICE forward law at this junction temperature (IS(T) once).
         const parts::ForwardLaw law = diode.forward_at(tj);
-        auto vf = [&law](double i) { return law.vf(i); };
         double node[5], vnode[5];
         const double h = 0.25 * (lin_hi - lin_lo);
         for (int k = 0; k < 5; ++k) {
             node[k] = lin_lo + h * k;
-            vnode[k] = vf(node[k]);
+            vnode[k] = law.vf(node[k]);
         }
         // Straight line V_d0 + r_d·i fitted by least squares in time over the diode's interval
         // (Simpson weights × dt/di of the previous cycle): it keeps both the diode's volt-seconds
@@ -882,8 +881,8 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
         }
         if (!fitted) {
             const double im = std::max(node[2], 1e-9 * target);
-            rd = (vf(im * (1.0 + 1e-4)) - vf(im * (1.0 - 1e-4))) / (2e-4 * im);
-            vd0 = vf(im) - rd * im;
+            rd = (law.vf(im * (1.0 + 1e-4)) - law.vf(im * (1.0 - 1e-4))) / (2e-4 * im);
+            vd0 = law.vf(im) - rd * im;
         }
 
         path =

@@ -11,6 +11,19 @@ double band_amps(const Control& c, double target_current) {
 }
 
 namespace {
+double transitions(const Switch& sw) {
+    return std::max(0.0, sw.rise_time) + std::max(0.0, sw.fall_time);
+}
+} // namespace
+
+double shortest_on_time(const Design& d) {
+    return std::max(d.limits.t_on_min.value_or(0.0), transitions(d.sw));
+}
+double shortest_off_time(const Design& d) {
+    return std::max(d.limits.t_off_min.value_or(0.0), transitions(d.sw));
+}
+
+namespace {
 constexpr std::array<std::pair<Objective, std::string_view>, 5> objective_names{{
     {Objective::loss, "loss"},
     {Objective::size, "size"},

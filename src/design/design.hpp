@@ -121,4 +121,10 @@ struct Design {
 // Band in amperes for a design's target current.
 double band_amps(const Control& c, double target_current);
 
+// The shortest on- and off-time a switching period may hold: the controller's minimum
+// (limits.t_on_min, limits.t_off_min) or the switch's rise plus fall time, whichever is longer
+// (a shorter pulse never switches fully).
+double shortest_on_time(const Design& d);
+double shortest_off_time(const Design& d);
+
 } // namespace coilsieve::design

@@ -711,10 +711,7 @@ private:
         {
             // Every period holds an on-time and an off-time, and no period may be longer than
             // 1/f_sw_min.
-            const double on =
-                std::max(d.limits.t_on_min.value_or(0.0), d.sw.rise_time + d.sw.fall_time);
-            const double off =
-                std::max(d.limits.t_off_min.value_or(0.0), d.sw.rise_time + d.sw.fall_time);
+            const double on = shortest_on_time(d), off = shortest_off_time(d);
             if ((d.limits.t_on_min || d.limits.t_off_min) && on + off >= 1.0 / d.limits.f_sw_min)
                 fail(d.limits.t_on_min ? "limits.t_on_min" : "limits.t_off_min",
                      "the shortest on-time " + units::format(on, Dimension::time) +
