@@ -24,30 +24,6 @@ namespace {
 
 enum class Direction { upper, lower, either };
 
-struct LimitSpec {
-    std::string_view name;
-    u::Dimension dim;
-    Direction dir;
-};
-
-// The design file's limit names (design.hpp Limits) and their meaning.
-constexpr LimitSpec limit_specs[] = {
-    {"load_ripple", u::Dimension::ratio, Direction::upper},
-    {"current_error", u::Dimension::ratio, Direction::upper},
-    {"f_sw_min", u::Dimension::frequency, Direction::lower},
-    {"f_sw_max", u::Dimension::frequency, Direction::upper},
-    {"t_on_min", u::Dimension::time, Direction::lower},
-    {"t_off_min", u::Dimension::time, Direction::lower},
-    {"isat_derating", u::Dimension::ratio, Direction::upper},
-    {"vrrm_derating", u::Dimension::ratio, Direction::upper},
-    {"diode_current_derating", u::Dimension::ratio, Direction::upper},
-    {"tj_max", u::Dimension::temperature, Direction::upper},
-    {"t_inductor_max", u::Dimension::temperature, Direction::upper},
-    {"height_max", u::Dimension::length, Direction::upper},
-    {"footprint_max", u::Dimension::area, Direction::upper},
-    {"efficiency_min", u::Dimension::ratio, Direction::lower},
-};
-
 // Short names for the command line: `short<=` or `short>=` stands for the design name. They take
 // no `=`, which could read as "exactly".
 struct ShortLimit {
@@ -79,7 +55,7 @@ std::string fmt(double v, u::Dimension d) { return u::format(v, d); }
 
 std::vector<std::string> limit_names() {
     std::vector<std::string> v;
-    for (const auto& s : limit_specs) v.emplace_back(s.name);
+    for (const auto& f : design::limit_fields()) v.emplace_back(f.name);
     for (const auto& s : short_limits)
         v.push_back(std::string(s.short_name) + (s.dir == Direction::upper ? "<=" : ">="));
     return v;
@@ -119,47 +95,30 @@ void apply_limit(design::Design& d, std::string_view spec) {
     const std::string value = trim(text.substr(vpos));
     // A short form of the other direction falls to the direction check below.
     if (short_form != nullptr) name = std::string(short_form->name);
-    const LimitSpec* ls = nullptr;
-    for (const auto& s : limit_specs)
-        if (s.name == name) ls = &s;
+    const design::LimitField* ls = design::limit_field(name);
     if (ls == nullptr) {
         std::string known;
         for (const auto& n : limit_names()) known += (known.empty() ? "" : ", ") + n;
         throw UsageError("--limit \"" + text + "\": unknown limit \"" + name +
                          "\"; known: " + known);
     }
-    if (op != Direction::either && op != ls->dir)
+    const Direction dir = ls->upper ? Direction::upper : Direction::lower;
+    if (op != Direction::either && op != dir)
         throw UsageError("--limit \"" + text + "\": " + name + " is " +
-                         (ls->dir == Direction::upper
-                              ? "an upper limit; write " + name + "<=VALUE"
-                              : "a lower limit; write " + name + ">=VALUE"));
+                         (dir == Direction::upper ? "an upper limit; write " + name + "<=VALUE"
+                                                  : "a lower limit; write " + name + ">=VALUE"));
     double v = 0.0;
     try {
-        v = u::parse(value, ls->dim);
+        v = u::parse(value, ls->dimension);
     } catch (const std::exception& e) {
         throw UsageError("--limit \"" + text + "\": " + name + " takes a " +
-                         std::string(u::dimension_name(ls->dim)) + ": " + e.what());
+                         std::string(u::dimension_name(ls->dimension)) + ": " + e.what());
     }
-    if (!std::isfinite(v) || (ls->dim != u::Dimension::temperature && v <= 0.0))
+    if (!std::isfinite(v) || (ls->dimension != u::Dimension::temperature && v <= 0.0))
         throw UsageError("--limit \"" + text + "\": the value must be positive");
-    if (ls->dim == u::Dimension::ratio && name != "load_ripple" && name != "current_error" &&
-        v > 1.0)
+    if (ls->dimension == u::Dimension::ratio && !ls->above_one && v > 1.0)
         throw UsageError("--limit \"" + text + "\": " + name + " is a fraction of at most 100 %");
-    auto& l = d.limits;
-    if (name == "load_ripple") l.load_ripple = v;
-    else if (name == "current_error") l.current_error = v;
-    else if (name == "f_sw_min") l.f_sw_min = v;
-    else if (name == "f_sw_max") l.f_sw_max = v;
-    else if (name == "t_on_min") l.t_on_min = v;
-    else if (name == "t_off_min") l.t_off_min = v;
-    else if (name == "isat_derating") l.isat_derating = v;
-    else if (name == "vrrm_derating") l.vrrm_derating = v;
-    else if (name == "diode_current_derating") l.diode_current_derating = v;
-    else if (name == "tj_max") l.tj_max = v;
-    else if (name == "t_inductor_max") l.t_inductor_max = v;
-    else if (name == "height_max") l.height_max = v;
-    else if (name == "footprint_max") l.footprint_max = v;
-    else if (name == "efficiency_min") l.efficiency_min = v;
+    ls->set(d.limits, v);
 }
 
 void apply_weight(design::Design& d, std::string_view spec) {

@@ -22,6 +22,10 @@ u::Dimension field_dimension(const std::vector<std::string>& path, const design:
     if (parent == "supply") return u::Dimension::voltage;
     if (parent == "ambient") return u::Dimension::temperature;
     if (parent == "weights") return u::Dimension::dimensionless;
+    if (parent == "limits") {
+        const auto* f = design::limit_field(k);
+        return f != nullptr ? f->dimension : u::Dimension::dimensionless;
+    }
     if (k == "current" || k == "charge_current" || k == "termination_current" ||
         k == "precharge_current")
         return u::Dimension::current;
@@ -30,19 +34,12 @@ u::Dimension field_dimension(const std::vector<std::string>& path, const design:
         k == "on_resistance" || k == "sense_resistor")
         return u::Dimension::resistance;
     if (k == "capacitance" || k == "output_capacitance") return u::Dimension::capacitance;
-    if (k == "frequency" || k == "f_sw_min" || k == "f_sw_max") return u::Dimension::frequency;
+    if (k == "frequency") return u::Dimension::frequency;
     if (k == "band")
         return d.control.band_is_fraction ? u::Dimension::ratio : u::Dimension::current;
-    if (k == "delay" || k == "rise_time" || k == "fall_time" || k == "t_on_min" || k == "t_off_min")
-        return u::Dimension::time;
+    if (k == "delay" || k == "rise_time" || k == "fall_time") return u::Dimension::time;
     if (k == "gate_charge") return u::Dimension::charge;
     if (k == "capacity") return u::Dimension::battery_capacity;
-    if (k == "load_ripple" || k == "current_error" || k == "isat_derating" ||
-        k == "vrrm_derating" || k == "diode_current_derating" || k == "efficiency_min")
-        return u::Dimension::ratio;
-    if (k == "tj_max" || k == "t_inductor_max") return u::Dimension::temperature;
-    if (k == "height_max") return u::Dimension::length;
-    if (k == "footprint_max") return u::Dimension::area;
     if (k == "vf_tempco") return u::Dimension::voltage_per_kelvin;
     return u::Dimension::dimensionless;
 }

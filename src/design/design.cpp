@@ -11,10 +11,38 @@ double band_amps(const Control& c, double target_current) {
 }
 
 namespace {
+using D = units::Dimension;
+constexpr LimitField limit_table[] = {
+    {"load_ripple", D::ratio, true, true, [](Limits& l, double v) { l.load_ripple = v; }},
+    {"current_error", D::ratio, true, true, [](Limits& l, double v) { l.current_error = v; }},
+    {"f_sw_min", D::frequency, false, false, [](Limits& l, double v) { l.f_sw_min = v; }},
+    {"f_sw_max", D::frequency, true, false, [](Limits& l, double v) { l.f_sw_max = v; }},
+    {"t_on_min", D::time, false, false, [](Limits& l, double v) { l.t_on_min = v; }},
+    {"t_off_min", D::time, false, false, [](Limits& l, double v) { l.t_off_min = v; }},
+    {"isat_derating", D::ratio, true, false, [](Limits& l, double v) { l.isat_derating = v; }},
+    {"vrrm_derating", D::ratio, true, false, [](Limits& l, double v) { l.vrrm_derating = v; }},
+    {"diode_current_derating", D::ratio, true, false,
+     [](Limits& l, double v) { l.diode_current_derating = v; }},
+    {"tj_max", D::temperature, true, false, [](Limits& l, double v) { l.tj_max = v; }},
+    {"t_inductor_max", D::temperature, true, false,
+     [](Limits& l, double v) { l.t_inductor_max = v; }},
+    {"height_max", D::length, true, false, [](Limits& l, double v) { l.height_max = v; }},
+    {"footprint_max", D::area, true, false, [](Limits& l, double v) { l.footprint_max = v; }},
+    {"efficiency_min", D::ratio, false, false, [](Limits& l, double v) { l.efficiency_min = v; }},
+};
+
 double transitions(const Switch& sw) {
     return std::max(0.0, sw.rise_time) + std::max(0.0, sw.fall_time);
 }
 } // namespace
+
+std::span<const LimitField> limit_fields() { return limit_table; }
+
+const LimitField* limit_field(std::string_view name) {
+    for (const auto& f : limit_table)
+        if (f.name == name) return &f;
+    return nullptr;
+}
 
 double shortest_on_time(const Design& d) {
     return std::max(d.limits.t_on_min.value_or(0.0), transitions(d.sw));

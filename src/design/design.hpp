@@ -3,8 +3,10 @@
 // Read from a JSON design file by design/design_json.hpp; plain data here.
 
 #include "loads/load.hpp"
+#include "units/quantity.hpp"
 
 #include <optional>
+#include <span>
 #include <stdexcept>
 #include <string>
 #include <string_view>
@@ -120,6 +122,18 @@ struct Design {
 
 // Band in amperes for a design's target current.
 double band_amps(const Control& c, double target_current);
+
+// The design file's limits as named there: the unit of the value, whether it is a maximum, whether
+// a ratio may exceed 100 % (a ripple or an error is no share of a whole), and where it is kept.
+struct LimitField {
+    std::string_view name;
+    units::Dimension dimension;
+    bool upper;
+    bool above_one;
+    void (*set)(Limits&, double);
+};
+std::span<const LimitField> limit_fields();
+const LimitField* limit_field(std::string_view name); // nullptr for an unknown name
 
 // The shortest on- and off-time a switching period may hold: the controller's minimum
 // (limits.t_on_min, limits.t_off_min) or the switch's rise plus fall time, whichever is longer
