@@ -1,6 +1,7 @@
 #include "report/check_report.hpp"
 
 #include "converter/json.hpp"
+#include "design/design.hpp"
 #include "report/table.hpp"
 #include "units/quantity.hpp"
 
@@ -112,16 +113,13 @@ Table loss_table(const converter::PairEvaluation& e) {
 
 // Unit of a limit's value, for the table.
 Dimension limit_dimension(const std::string& limit) {
+    // A check named as the design file's limit has that limit's unit; the rest check a rating.
+    if (const auto* f = design::limit_field(limit)) return f->dimension;
     static const std::map<std::string, Dimension, std::less<>> dims{
-        {"load_ripple", Dimension::ratio},    {"f_sw_min", Dimension::frequency},
-        {"f_sw_max", Dimension::frequency},   {"isat", Dimension::current},
-        {"inductor_rms", Dimension::current}, {"t_inductor", Dimension::temperature},
-        {"vrrm", Dimension::voltage},         {"diode_current", Dimension::current},
-        {"tj_max", Dimension::temperature},   {"efficiency_min", Dimension::ratio},
-        {"height_max", Dimension::length},    {"footprint_max", Dimension::area},
-        {"regulation", Dimension::ratio},     {"srf", Dimension::frequency},
-        {"t_on_min", Dimension::time},        {"t_off_min", Dimension::time},
-        {"current_error", Dimension::ratio}};
+        {"isat", Dimension::current},           {"inductor_rms", Dimension::current},
+        {"t_inductor", Dimension::temperature}, {"vrrm", Dimension::voltage},
+        {"diode_current", Dimension::current},  {"regulation", Dimension::ratio},
+        {"srf", Dimension::frequency}};
     const auto it = dims.find(limit);
     return it == dims.end() ? Dimension::dimensionless : it->second;
 }
