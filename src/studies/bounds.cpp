@@ -73,8 +73,8 @@ public:
         const auto& lim = d_.limits;
         peak_cap_ = lim.isat_derating * m.isat;
         t_l_bound_ = lim.t_inductor_max ? std::min(m.t_max, *lim.t_inductor_max) : m.t_max;
-        const double dcr_ub = m.dcr(std::max(t_l_bound_, 0.0), true);
-        dcr_ub_ = dcr_ub;
+        dcr_ub_ = winding_resistance_max(d_, m); // at t_l_bound_, maximum DCR
+        const double dcr_ub = dcr_ub_;
         const double cap = d_.output_capacitor ? d_.output_capacitor->capacitance : 0.0;
         for (const auto& k : corners_) {
             CornerParts p;
