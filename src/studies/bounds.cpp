@@ -40,6 +40,7 @@ struct CornerParts {
     double l_lo_cap = 0.0; // H: inductance at the Isat limit
     bool capacitor = false;
     double cap = 0.0, esr = 0.0; // F, Ω of the output capacitor when it takes ripple
+    double off_own = 0.0;        // the diode's charge share with this winding (off_share_with)
     // With a diode: its forward law at the ambient, 1 K below it and at the junction limit.
     parts::ForwardLaw vf_ambient, vf_below, vf_limit;
 };
@@ -91,6 +92,7 @@ public:
             p.capacitor = cap > 0.0 && k.r > 0.0;
             p.cap = cap;
             p.esr = d_.output_capacitor ? std::max(0.0, d_.output_capacitor->esr) : 0.0;
+            p.off_own = off_share_with(d_, k, dcr_ub_);
             if (diode_ != nullptr) {
                 p.vf_ambient = diode_->forward_at(k.ambient);
                 p.vf_below = diode_->forward_at(k.ambient - 1.0);
@@ -128,11 +130,12 @@ public:
     // only EnvelopeCorner::off_share at I_k (diode_bound): the same junction balance. That share
     // takes the largest winding of the inductors paired; this pair's own winding gives at least
     // off_share_with its DCR, CCM certain or not.
-    double diode_excess(const EnvelopeCorner& k, double valley_lb, double von_lb, double voff_ub,
+    double diode_excess(const CornerParts& p, double valley_lb, double von_lb, double voff_ub,
                         double mean_off) const {
+        const EnvelopeCorner& k = *p.k;
         if (diode_ == nullptr || diode_bound_ == nullptr || k.vin <= 0.0 || k.current <= 0.0)
             return 0.0;
-        double off = off_share_with(d_, k, dcr_ub_);
+        double off = p.off_own;
         if (valley_lb > 0.0 && von_lb > 0.0)
             off = std::max(off,
                            von_lb / (von_lb + voff_ub) * std::max(1.0, mean_off / k.current_lb()));
@@ -488,7 +491,7 @@ public:
             }
             const double w = std::max(0.0, k.weight);
             loss_sum += w * (copper + core + e_sw * f_lb + floor_excess +
-                             diode_excess(k, valley_lb, von_lb, voff_ub, mean_off));
+                             diode_excess(p, valley_lb, von_lb, voff_ub, mean_off));
             f_sum += w * f_lb;
             fv_sum += w * f_lb * valley_lb * k.vin;
             w_sum += w;
