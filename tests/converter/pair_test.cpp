@@ -314,6 +314,7 @@ TEST(PairLimits, HystereticCurrentErrorFollowsTheDelayAndIsLimited) {
         const double vo = corners[k].point.v0 + corners[k].point.r * i;
         const double drops = i * (d.sense_resistor + l.dcr_typ);
         const double von = r.vin - vo - drops - i * switch_on_resistance(d.sw, r.ambient);
+        // The diode's drop from the SPICE law with kT/q = 25.9 mV (300 K; CODATA k and q).
         const double voff = vo + drops + di.spice->n * 0.0259 * std::log(i / di.spice->is);
         const double skew = 300e-9 * (von - voff) / (2.0 * l.inductance * corners[k].l_scale * i);
         EXPECT_NEAR(r.regulation_error, skew, 0.15 * std::abs(skew) + 0.001) << r.name;
