@@ -170,10 +170,12 @@ PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
                        ") exceeds the limit " + b + at(cn);
             });
         }
-        if (lim.current_error) {
+        // Under PWM the duty is solved for the target: the error is the solver's tolerance, and a
+        // constraint that never binds would only steer the tuner.
+        if (d.control.mode == design::ControlMode::hysteretic) {
             const double error = std::abs(r.regulation_error);
-            check.upper("current_error", cn, error, *lim.current_error, [&] {
-                const auto [v, b] = apart(error, *lim.current_error, Dimension::ratio);
+            check.upper("current_error", cn, error, lim.current_error, [&] {
+                const auto [v, b] = apart(error, lim.current_error, Dimension::ratio);
                 return "average load current " + fmt(r.load_i_avg, Dimension::current) + " is " +
                        v + (r.regulation_error < 0.0 ? " below" : " above") + " its target " +
                        fmt(c.point.current, Dimension::current) + ", more than the limit " + b +

@@ -55,7 +55,7 @@ struct Ambient {
     std::optional<double> min; // K
 };
 
-// Every limit is optional; absent means "not checked".
+// A limit is optional (absent means "not checked") unless it has a default.
 struct Limits {
     std::optional<double> load_ripple; // fraction p-p of average load current
     double f_sw_min = 20e3;            // Hz, above hearing (common practice)
@@ -65,8 +65,10 @@ struct Limits {
     std::optional<double> t_on_min;  // s
     std::optional<double> t_off_min; // s
     // |average load current − target|/target at every corner: hysteretic control sets the average
-    // only through the thresholds, the delay and the ramps' shape.
-    std::optional<double> current_error;  // fraction
+    // only through the thresholds, the delay and the ramps' shape. A constant-current stage is
+    // specified by its current: ±5 % is the usual accuracy asked of an LED driver (common
+    // practice); 100 % lifts the limit.
+    double current_error = 0.05;          // fraction
     double isat_derating = 0.8;           // peak <= derating * Isat (common practice)
     double vrrm_derating = 0.8;           // reverse voltage <= derating * Vrrm (common practice)
     double diode_current_derating = 0.8;  // diode average <= derating * If(AV) (common practice)

@@ -867,7 +867,7 @@ json to_json(const Design& d) {
     json lim = json::object();
     const Limits& l = d.limits;
     if (l.load_ripple) lim["load_ripple"] = *l.load_ripple;
-    if (l.current_error) lim["current_error"] = *l.current_error;
+    lim["current_error"] = l.current_error;
     lim["f_sw_min"] = l.f_sw_min;
     if (l.f_sw_max) lim["f_sw_max"] = *l.f_sw_max;
     if (l.t_on_min) lim["t_on_min"] = *l.t_on_min;

@@ -180,7 +180,7 @@ public:
             double load_lo = 0.0, load_hi = INFINITY;
             if (p.capacitor && lim.load_ripple) {
                 load_lo = std::max(0.0, k.current_lb() - *lim.load_ripple * i_target);
-                load_hi = i_target / k.current_share + *lim.load_ripple * i_target;
+                load_hi = k.current_ub() + *lim.load_ripple * i_target;
             }
             auto vload_lb = [&](double i) { return k.v0 + k.r * std::max(i, load_lo); };
             auto vload_ub = [&](double i) { return k.v0 + k.r * std::min(i, load_hi); };
@@ -217,7 +217,7 @@ public:
                     // peak <= sqrt(2·I·ΔI) <= I + ΔI: either way peak <= I + ΔI.
                     const double voff =
                         vload_ub(peak_ub) + drop_max(peak_ub, p) + peak_ub * p.r_off_ub;
-                    peak_ub = std::min(peak_ub, i_target / k.current_share +
+                    peak_ub = std::min(peak_ub, k.current_ub() +
                                                     volt_second_rate(von_ub, voff) / (l_lo * x1));
                 }
                 l_lo = std::max(l_lo, m_.inductance(peak_ub, k.l_scale));
@@ -301,17 +301,9 @@ public:
                                 converter::triangle_load_ripple(k.r, p.cap, p.esr, f_ub, d_lo),
                                 converter::triangle_load_ripple(k.r, p.cap, p.esr, f_ub, d_hi));
                 }
-                // The mean sits near (peak + valley)/2 = I + t_d·(Von − Voff)/(2L).
-                const double skew_lo = td * (von_lb - voff_ub) / 2.0;
-                const double skew_hi = td * (von_ub - voff_lb) / 2.0;
-                i_lb = current_slack *
-                       std::max(0.0, i_target + skew_lo / (skew_lo < 0.0 ? l_lo : l_hi));
-                i_ub = (i_target + std::max(0.0, skew_hi) / l_lo) / current_slack;
-                // A limit on the current's error holds exactly for a feasible pair.
-                if (const auto& e = d_.limits.current_error) {
-                    i_lb = std::max(i_lb, (1.0 - *e) * i_target);
-                    i_ub = std::min(i_ub, (1.0 + *e) * i_target);
-                }
+                // The limit on the current's error holds for a feasible pair.
+                i_lb = k.current_lb();
+                i_ub = k.current_ub();
                 // In CCM each ramp is monotone with time density dt/di = L(i)/|v_L(i)| within
                 // known limits, so its mean is at least valley + h·ΔI (ramp_mean_share); the
                 // cycle's mean is a blend of its two ramps' means.
@@ -330,7 +322,7 @@ public:
                 // still holds and the charge I·T = ∫i·L(1/Von + 1/Voff) di <= L_hi·ΔI²/(2g), so
                 // ΔI >= sqrt(2·I·g·T/L_hi) (ibid. ch. 5).
                 i_lb = k.current_lb();
-                i_ub = i_target / k.current_share;
+                i_ub = k.current_ub();
                 const double di_ub = g_ub / (l_lo * x1);
                 valley_lb = std::max(0.0, i_lb - di_ub);
                 const double g_lb = volt_second_rate(von_lb, std::max(0.0, vload_lb(0.0)));

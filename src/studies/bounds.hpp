@@ -8,17 +8,18 @@
 // [x1, x2] by monotone pieces (ripple from x1, frequency from x2, ...), and the inductor's share of
 // the score is minimised over intervals refined where the minimum lies. The sum over a pair's two
 // parts is then a lower bound of what the tuner can reach.
-// Four allowances are engineering margins, not proofs: under hysteretic control the average
-// current is at least 0.97 of its target (under PWM it is the target: the engine solves the duty
-// for it); the diode's share of the charge is at least 0.8·(1 − D), D the duty with the design's
-// switch and sense drops and the largest winding paired; the switch duty is at least 0.9·Vo/Vin
-// (where CCM is certain, a pair's own floors from its ramps are taken when higher, but these still
-// stand beneath them); a PWM peak is at least I + ΔI/2 less curved_peak_slack where CCM is not
-// certain; in CCM with a capacitor the PWM load ripple is at least an ideal triangle's less
-// curved_ramp_slack. The rest are inequalities: volt-second and charge balance, and each ramp's
-// least and greatest mean and least variance for a time density within a known ratio.
-// tests/studies/bounds_test.cpp checks every bound pointwise against the engine on the starter
-// catalog for the example designs and for variants with a lossy switch or sense resistor.
+// The average current lies within the limit current_error of its target under hysteretic control,
+// and is the target under PWM (the engine solves the duty for it). Four allowances are
+// engineering margins, not proofs: the diode's share of the charge is at least 0.8·(1 − D), D the
+// duty with the design's switch and sense drops and the largest winding paired; the switch duty is
+// at least 0.9·Vo/Vin (where CCM is certain, a pair's own floors from its ramps are taken when
+// higher, but these still stand beneath them); a PWM peak is at least I + ΔI/2 less
+// curved_peak_slack where CCM is not certain; in CCM with a capacitor the PWM load ripple is at
+// least an ideal triangle's less curved_ramp_slack. The rest are inequalities: volt-second and
+// charge balance, and each ramp's least and greatest mean and least variance for a time density
+// within a known ratio. tests/studies/bounds_test.cpp checks every bound pointwise against the
+// engine on the starter catalog for the example designs and for variants with a lossy switch or
+// sense resistor.
 
 #include "design/design.hpp"
 #include "optimisation/objectives.hpp"

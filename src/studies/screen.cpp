@@ -54,7 +54,7 @@ double ripple_ceiling(const ScreenContext& c, const EnvelopeCorner& k, double l_
     const double td = c.design->control.delay;
     double di = band_hi(c, k) + td * (1.2 * k.vin + diode_drop_max) / l_lo;
     if (c.design->limits.load_ripple && !c.design->output_capacitor)
-        di = std::min(di, *c.design->limits.load_ripple * k.current / k.current_share);
+        di = std::min(di, *c.design->limits.load_ripple * k.current_ub());
     return di;
 }
 
@@ -62,9 +62,7 @@ double ripple_ceiling(const ScreenContext& c, const EnvelopeCorner& k, double l_
 
 double average_current_share(const design::Design& d) {
     if (d.control.mode != design::ControlMode::hysteretic) return pwm_current_share;
-    // With a limit on the current's error a feasible pair's average is at least 1 − that: a fact,
-    // taken in place of the allowance (which a wide band with a long delay can break).
-    return d.limits.current_error ? std::max(0.0, 1.0 - *d.limits.current_error) : current_slack;
+    return std::max(0.0, 1.0 - d.limits.current_error);
 }
 
 bool hysteretic(const ScreenContext& c) {

@@ -26,18 +26,17 @@ struct ScreenReason {
     std::string message;
 };
 
-// Allowances shared by the screens and the bounds (engineering margins, common practice):
-// under hysteretic control the average current of a feasible pair is at least current_slack of
-// its target (the thresholds set it only through the ramps' shape, the delay and DCM); the diode
-// carries at least duty_slack·(1 − D) of the charge, D the duty with the design's own switch and
-// sense drops and the largest winding paired (EnvelopeCorner::off_share; the slack is for the
+// Allowances shared by the screens and the bounds (engineering margins, common practice): the
+// diode carries at least duty_slack·(1 − D) of the charge, D the duty with the design's own switch
+// and sense drops and the largest winding paired (EnvelopeCorner::off_share; the slack is for the
 // diode's drop, DCM and the ramps: BoundsJunction.DiodeChargeShareCoversFeasiblePairs finds 0.89
 // at least; 0.75 before the winding was taken); a diode drops at most diode_drop_max.
-constexpr double current_slack = 0.97;
 constexpr double pwm_current_share = 1.0 - 1e-6;
 constexpr double duty_slack = 0.8;
 constexpr double diode_drop_max = 3.0; // V
-// The share of its target the average current is at least, for this design's control.
+// The share of its target the average current of a feasible pair is at least, for this design's
+// control: a fact either way. Under PWM the engine solves the duty for the target, so only the
+// solver's tolerance; under hysteretic control the limit current_error.
 double average_current_share(const design::Design& d);
 
 // The operating envelope a design gives, from its corners.
@@ -52,11 +51,11 @@ struct EnvelopeCorner {
     bool dcr_max = false; // the corner takes the maximum DCR
     bool nominal = false; // the loss objective is taken here
     double weight = 0.0;  // its share of the loss objective (charge profile time)
-    // The average current of a feasible pair is at least this share of `current`: current_slack
-    // under hysteretic control; under PWM the duty is solved so that the average is the target
-    // (converter/steady_state.cpp), so only the solver's tolerance, pwm_current_share.
-    double current_share = current_slack;
+    // The average current of a feasible pair is at least this share of `current`, and at most
+    // `current` over it (average_current_share).
+    double current_share = pwm_current_share;
     double current_lb() const { return current_share * current; }
+    double current_ub() const { return (2.0 - current_share) * current; }
     // The share of the charge the diode carries at least: duty_slack·(1 − D) with
     // D = (V_load + I·(R_sense + R_w))/(Vin − I·R_on), the CCM duty with the winding's largest
     // resistance R_w (ScreenContext::winding_resistance) and before the diode's drop, which only

@@ -203,6 +203,10 @@ TEST(DesignFile, DefaultsAreRecorded) {
     EXPECT_NEAR(b.termination_current, 0.125, 1e-12);
     EXPECT_NEAR(b.precharge_current, 0.2, 1e-12);
     EXPECT_DOUBLE_EQ(d.limits.f_sw_min, 20e3);
+    // ±5 % on the current: common practice for an LED driver's accuracy. Written out, so a saved
+    // study reruns with the limit it ran with even if the default changes.
+    EXPECT_DOUBLE_EQ(d.limits.current_error, 0.05);
+    EXPECT_DOUBLE_EQ(to_json(d)["limits"]["current_error"].get<double>(), 0.05);
 
     json j = lamp_json();
     j["switch"].erase("rise_time");
