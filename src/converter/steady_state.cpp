@@ -1273,29 +1273,35 @@ double triangle_load_ripple(double r, double capacitance, double esr, double fre
     const double period = 1.0 / frequency;
     const double t1 = duty * period, t2 = period - t1;
     const double a = 1.0 / t1, b = 1.0 / t2; // slopes of a triangle of 1 A p-p
-    // 1 − e^{−t/τ} without cancellation when τ is long.
+    // 1 − e^{−t/τ} without cancellation when τ is long; over the period it is g1 + g2 − g1·g2, a
+    // sum of positive terms but for a small product, so two exponentials serve the three.
     auto one_minus = [tau](double t) { return -std::expm1(-t / tau); };
-    const double g1 = one_minus(t1), g2 = one_minus(t2), g = one_minus(period);
+    const double g1 = one_minus(t1), g2 = one_minus(t2), g = g1 + g2 - g1 * g2;
     // e = i_L − z: on the rise e → a·τ, on the fall e → −b·τ; e0 at the valley, e1 at the peak.
     const double e0 = tau * (-b * g2 + a * (1.0 - g2) * g1) / g;
     const double e1 = a * tau + (e0 - a * tau) * (1.0 - g1);
-    // y measured from its value at the valley.
-    auto rise = [&](double t) { return a * t + (1.0 - beta) * (e0 - a * tau) * one_minus(t); };
-    const double y1 = rise(t1);
-    auto fall = [&](double t) { return y1 - b * t + (1.0 - beta) * (e1 + b * tau) * one_minus(t); };
+    // y measured from its value at the valley; `gt` is 1 − e^{−t/τ} at t.
+    auto rise = [&](double t, double gt) { return a * t + (1.0 - beta) * (e0 - a * tau) * gt; };
+    const double y1 = rise(t1, g1);
+    auto fall = [&](double t, double gt) {
+        return y1 - b * t + (1.0 - beta) * (e1 + b * tau) * gt;
+    };
     double lo = std::min(0.0, y1), hi = std::max(0.0, y1);
-    // Turning points inside a piece: y' = 0 where e^{−t/τ} takes the value x.
+    // Turning points inside a piece: y' = 0 where e^{−t/τ} takes the value p/q. With t taken from
+    // 1 − p/q itself the pair (t, 1 − e^{−t/τ}) stays on the curve, where y is stationary and so
+    // insensitive to the rounding of p/q; no exponential is needed.
     if (beta < 1.0) {
-        auto inside = [&](double x, double t_end, auto&& y) {
-            if (!(x > 0.0) || !(x < 1.0)) return;
-            const double t = -tau * std::log(x);
+        auto inside = [&](double p, double q, double t_end, auto&& y) {
+            if (!(p > 0.0) || !(p < q)) return;
+            const double gt = (q - p) / q;
+            const double t = -tau * std::log1p(-gt);
             if (!(t > 0.0 && t < t_end)) return;
-            const double v = y(t);
+            const double v = y(t, gt);
             lo = std::min(lo, v);
             hi = std::max(hi, v);
         };
-        if (a * tau - e0 > 0.0) inside(a * tau / ((1.0 - beta) * (a * tau - e0)), t1, rise);
-        if (e1 + b * tau > 0.0) inside(b * tau / ((1.0 - beta) * (e1 + b * tau)), t2, fall);
+        if (a * tau - e0 > 0.0) inside(a * tau, (1.0 - beta) * (a * tau - e0), t1, rise);
+        if (e1 + b * tau > 0.0) inside(b * tau, (1.0 - beta) * (e1 + b * tau), t2, fall);
     }
     return hi - lo;
 }
