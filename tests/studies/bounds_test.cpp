@@ -645,6 +645,54 @@ TEST(BoundsJunction, NearDropoutTheDiodeFloorTakesTheWindingsDrop) {
     EXPECT_GT(near_dropout, 50u);
 }
 
+namespace {
+
+// One draw of the sampling tests below: an example design at a supply `vs` from 0.75 to 2.25
+// times its nominal one, a random starter pair whose inductor passes screening there, and a setting
+// `x` spread logarithmically over the range.
+struct Draw {
+    const design::Design& d;
+    const studies::ScreenContext& ctx;
+    const parts::Inductor& l;
+    const parts::Diode& di;
+    const parts::InductorModel& lm;
+    double vs = 0.0;
+    double x = 0.0;
+    converter::Setting setting;
+};
+
+// f(draw) for each of `draws` draws (random, deterministic from `rng_start`) whose supply can
+// drive the load and whose inductor passes screening.
+template <class F>
+void for_random_pairs(const Case& s, const char* file, unsigned rng_start, int draws, F&& f) {
+    const auto& k = starter();
+    std::mt19937 rng(rng_start);
+    std::uniform_int_distribution<std::size_t> pick_l(0, k.inductors.size() - 1);
+    std::uniform_int_distribution<std::size_t> pick_d(0, k.diodes.size() - 1);
+    std::uniform_real_distribution<double> u(0.0, 1.0);
+    for (int n = 0; n < draws; ++n) {
+        auto d = s.d;
+        const double vs = s.d.supply.nom * (0.75 + 1.5 * u(rng));
+        d.supply = {vs, vs, vs};
+        try {
+            design::validate(d, file);
+        } catch (const std::exception&) {
+            continue; // the supply cannot drive this load at all
+        }
+        const auto range = optimisation::setting_range(d);
+        const auto ctx = studies::make_screen_context(d, range);
+        const auto& l = k.inductors[pick_l(rng)];
+        const auto& di = k.diodes[pick_d(rng)];
+        const auto lm = parts::make_model(l);
+        if (!studies::screen_inductor(ctx, l, lm).empty()) continue;
+        const double x = range.lo * std::pow(range.hi / range.lo, u(rng));
+        f(Draw{d, ctx, l, di, lm, vs, x,
+               optimisation::make_setting(range, converter::default_setting(d), x)});
+    }
+}
+
+} // namespace
+
 // The claim under the diode's floors and screens (EnvelopeCorner::off_share): the diode carries at
 // least duty_slack·(1 − D) of the charge, D the CCM duty with the load's, sense and winding drops
 // (volt-second balance, Erickson & Maksimović 2nd ed. ch. 2; the slack for the diode's own drop,
@@ -653,49 +701,28 @@ TEST(BoundsJunction, NearDropoutTheDiodeFloorTakesTheWindingsDrop) {
 // pair. Without the winding the least ratio found is 0.52 (the charger near dropout); with it,
 // 0.89.
 TEST(BoundsJunction, DiodeChargeShareCoversFeasiblePairs) {
-    const auto& k = starter();
     for (const char* file :
          {"two-cell-charger.json", "reading-lamp.json", "workshop-floodlight.json"}) {
-        Case s(file);
-        std::mt19937 rng(5);
-        std::uniform_int_distribution<std::size_t> pick_l(0, k.inductors.size() - 1);
-        std::uniform_int_distribution<std::size_t> pick_d(0, k.diodes.size() - 1);
-        std::uniform_real_distribution<double> u(0.0, 1.0);
+        const Case s(file);
         double least = INFINITY;
         std::size_t feasible = 0;
-        for (int n = 0; n < 20000; ++n) {
-            auto d = s.d;
-            const double vs = s.d.supply.nom * (0.75 + 1.5 * u(rng));
-            d.supply = {vs, vs, vs};
-            try {
-                design::validate(d, file);
-            } catch (const std::exception&) {
-                continue; // the supply cannot drive this load at all
-            }
-            const auto range = optimisation::setting_range(d);
-            const auto ctx = studies::make_screen_context(d, range);
-            const auto& l = k.inductors[pick_l(rng)];
-            const auto& di = k.diodes[pick_d(rng)];
-            const auto lm = parts::make_model(l);
-            if (!studies::screen_inductor(ctx, l, lm).empty()) continue;
-            const double f = range.lo * std::pow(range.hi / range.lo, u(rng));
-            const auto e = converter::evaluate_pair(
-                d, l, di, optimisation::make_setting(range, converter::default_setting(d), f));
-            if (!e.feasible) continue;
+        for_random_pairs(s, file, 5, 20000, [&](const Draw& p) {
+            const auto e = converter::evaluate_pair(p.d, p.l, p.di, p.setting);
+            if (!e.feasible) return;
             ++feasible;
-            const double r_w = studies::winding_resistance_max(d, lm);
-            const auto corners = studies::part_corners(ctx, l.tolerance);
+            const double r_w = studies::winding_resistance_max(p.d, p.lm);
+            const auto corners = studies::part_corners(p.ctx, p.l.tolerance);
             ASSERT_EQ(corners.size(), e.corners.size());
             for (std::size_t c = 0; c < e.corners.size(); ++c) {
                 const auto& r = e.corners[c];
-                const double claim = studies::off_share_with(d, corners[c], r_w);
+                const double claim = studies::off_share_with(p.d, corners[c], r_w);
                 if (!(claim > 0.0)) continue;
                 const double share = r.id_avg / r.il_avg;
                 least = std::min(least, share / claim * studies::duty_slack);
-                EXPECT_GE(share, claim) << file << ": " << l.id << " with " << di.id << " at "
-                                        << r.name << ", " << vs << " V";
+                EXPECT_GE(share, claim) << file << ": " << p.l.id << " with " << p.di.id << " at "
+                                        << r.name << ", " << p.vs << " V";
             }
-        }
+        });
         EXPECT_GT(feasible, 30u) << file;
         RecordProperty(std::string("least_ratio_") + file, std::to_string(least));
     }
@@ -711,38 +738,16 @@ TEST(BoundsJunction, DiodeChargeShareCoversFeasiblePairs) {
 // lifted such pairs are feasible (the claim would be wrong without it); with the default every
 // feasible pair's every corner lies within the shares.
 TEST(BoundsCurrent, FeasiblePairsKeepTheirCurrentWithinTheShares) {
-    const auto& k = starter();
     for (const char* file : {"workshop-floodlight.json", "reading-lamp.json"}) {
-        Case s(file);
+        const Case s(file);
         ASSERT_EQ(s.d.limits.current_error, 0.05) << "the default limit";
-        std::mt19937 rng(17);
-        std::uniform_int_distribution<std::size_t> pick_l(0, k.inductors.size() - 1);
-        std::uniform_int_distribution<std::size_t> pick_d(0, k.diodes.size() - 1);
-        std::uniform_real_distribution<double> u(0.0, 1.0);
         std::size_t feasible = 0, outside_when_lifted = 0;
-        for (int n = 0; n < 12000; ++n) {
-            auto d = s.d;
-            const double vs = s.d.supply.nom * (0.75 + 1.5 * u(rng));
-            d.supply = {vs, vs, vs};
-            try {
-                design::validate(d, file);
-            } catch (const std::exception&) {
-                continue; // the supply cannot drive this load at all
-            }
-            const auto range = optimisation::setting_range(d);
-            const auto ctx = studies::make_screen_context(d, range);
-            const auto& l = k.inductors[pick_l(rng)];
-            const auto& di = k.diodes[pick_d(rng)];
-            const auto lm = parts::make_model(l);
-            if (!studies::screen_inductor(ctx, l, lm).empty()) continue;
-            const double band = range.lo * std::pow(range.hi / range.lo, u(rng));
-            const auto setting =
-                optimisation::make_setting(range, converter::default_setting(d), band);
-            auto lifted = d;
+        for_random_pairs(s, file, 17, 12000, [&](const Draw& p) {
+            auto lifted = p.d;
             lifted.limits.current_error = 1.0;
-            const auto e = converter::evaluate_pair(lifted, l, di, setting);
-            if (!e.feasible) continue;
-            const auto corners = studies::part_corners(ctx, l.tolerance);
+            const auto e = converter::evaluate_pair(lifted, p.l, p.di, p.setting);
+            if (!e.feasible) return;
+            const auto corners = studies::part_corners(p.ctx, p.l.tolerance);
             ASSERT_EQ(corners.size(), e.corners.size());
             bool outside = false, inside_all = true;
             for (std::size_t c = 0; c < e.corners.size(); ++c) {
@@ -752,12 +757,11 @@ TEST(BoundsCurrent, FeasiblePairsKeepTheirCurrentWithinTheShares) {
                 inside_all = inside_all && inside;
             }
             if (outside) ++outside_when_lifted;
-            const bool ok = converter::evaluate_pair(d, l, di, setting).feasible;
-            if (!ok) continue;
+            if (!converter::evaluate_pair(p.d, p.l, p.di, p.setting).feasible) return;
             ++feasible;
-            EXPECT_TRUE(inside_all) << file << ": " << l.id << " with " << di.id << " at " << vs
-                                    << " V, band " << band << " A";
-        }
+            EXPECT_TRUE(inside_all) << file << ": " << p.l.id << " with " << p.di.id << " at "
+                                    << p.vs << " V, band " << p.x << " A";
+        });
         EXPECT_GT(feasible, 100u) << file;
         RecordProperty(std::string("outside_when_lifted_") + file,
                        std::to_string(outside_when_lifted));
