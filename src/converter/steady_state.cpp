@@ -807,6 +807,24 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
     double t_l = amb, tj = amb;
     double lin_lo = hysteretic ? i_lo : 0.9 * target;
     double lin_hi = hysteretic ? i_hi : 1.1 * target;
+    // First linearisation spans near the answer's: the valley and peak, which the roll-off's
+    // effective L (and under PWM its charge correction) are taken over, then settle in fewer
+    // passes. Hysteretic: the thresholds plus the delay's overshoots t_d·V/L; PWM: the lossless
+    // CCM ripple (Vin − Vo)·D/(L·f), D = Vo/Vin (domain notes).
+    {
+        const double vo = v0 + r_load * target;
+        const double l_t = l.inductance(target, c.l_scale);
+        if (vin > vo && vo > 0.0 && l_t > 0.0) {
+            if (hysteretic) {
+                lin_hi = i_hi + td * (vin - vo) / l_t;
+                lin_lo = std::max(0.0, i_lo - td * vo / l_t);
+            } else {
+                const double half = std::min(0.5 * (vin - vo) * (vo / vin) * period / l_t, target);
+                lin_lo = target - half;
+                lin_hi = target + half;
+            }
+        }
+    }
     double i_avg_prev = target;
     const double l_eff = l.inductance(target, c.l_scale);
     double f_prev = 0.0;
