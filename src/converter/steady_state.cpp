@@ -801,10 +801,12 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
     const double v0 = c.point.v0;
     const double r_load = std::max(0.0, c.point.r);
 
-    // Fixed-point state. Temperatures start at the ambient, as at power-up: where the diode's
-    // leakage gives the junction a second, hot balance, this finds the one a real part settles at
-    // (a start nearer the answer, or from a neighbouring setting, can land on the other).
-    double t_l = amb, tj = amb;
+    // Fixed-point state. The junction starts at the ambient, as at power-up: where the diode's
+    // leakage gives it a second, hot balance, this finds the one a real part settles at (a start
+    // nearer the answer, or from a neighbouring setting, can land on the other). The winding has
+    // one balance (its loss only grows with temperature), so any start finds it: it starts at
+    // the rise its DC copper loss at the ambient gives, near the balance, which saves a pass.
+    double t_l = amb + l.rth * l.dcr(amb, c.dcr_max) * target * target, tj = amb;
     double lin_lo = hysteretic ? i_lo : 0.9 * target;
     double lin_hi = hysteretic ? i_hi : 1.1 * target;
     // First linearisation spans near the answer's: the valley and peak, which the roll-off's
