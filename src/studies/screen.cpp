@@ -30,11 +30,15 @@ double band_lo(const ScreenContext& c, const EnvelopeCorner& k) {
 double band_hi(const ScreenContext& c, const EnvelopeCorner& k) {
     return band_hi(c) * band_scale(c, k);
 }
-// Smallest possible peak over the corners that carry the largest current.
+// Smallest possible peak over the corners that carry the largest current. Under hysteretic
+// control the switch turns off only once the current reaches the upper threshold I + b/2, so the
+// peak is at least that, whatever the average.
 double peak_floor(const ScreenContext& c) {
     double p = 0.0;
-    for (const auto& k : c.corners)
-        p = std::max(p, k.current_share * (k.current + band_lo(c, k) / 2.0));
+    for (const auto& k : c.corners) {
+        const double share = hysteretic(c) ? 1.0 : k.current_share;
+        p = std::max(p, share * (k.current + band_lo(c, k) / 2.0));
+    }
     return p;
 }
 

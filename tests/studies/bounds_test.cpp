@@ -134,6 +134,47 @@ TEST_P(Bounds, WindowScreenedInductorsAreInfeasibleEverywhere) {
     }
 }
 
+// The saturation and RMS screens take the peak and the RMS current a feasible pair has at least
+// (under hysteretic control the peak reaches the upper threshold; the average is within the
+// current's error limit). The inductors they screen out nearest to passing, those screened out by
+// nothing else, are infeasible at every setting of the scan with every diode of a sample.
+TEST_P(Bounds, CurrentScreenedInductorsAreInfeasibleEverywhere) {
+    Case s(GetParam());
+    const auto& k = starter();
+    std::vector<std::pair<double, std::size_t>> near; // (value over bound, inductor)
+    for (std::size_t i = 0; i < k.inductors.size(); ++i) {
+        const auto m = parts::make_model(k.inductors[i]);
+        const auto reasons = studies::screen_inductor(s.ctx, k.inductors[i], m);
+        if (reasons.empty()) continue;
+        bool current_only = true;
+        double ratio = INFINITY;
+        for (const auto& r : reasons) {
+            current_only = current_only && (r.limit == "isat" || r.limit == "inductor_rms");
+            if (r.bound > 0.0) ratio = std::min(ratio, r.value / r.bound);
+        }
+        if (current_only && std::isfinite(ratio)) near.emplace_back(ratio, i);
+    }
+    ASSERT_FALSE(near.empty()) << "the example should exercise the current screens";
+    std::sort(near.begin(), near.end());
+    std::vector<std::size_t> diodes;
+    for (std::size_t j : sample(k.diodes, 12)) {
+        const auto dm = parts::make_model(k.diodes[j]);
+        if (studies::screen_diode(s.ctx, k.diodes[j], dm).empty()) diodes.push_back(j);
+    }
+    ASSERT_FALSE(diodes.empty());
+    for (std::size_t n = 0; n < near.size() && n < 15; ++n) {
+        const auto& l = k.inductors[near[n].second];
+        for (std::size_t j : diodes)
+            for (double x : s.scan) {
+                const auto e = converter::evaluate_pair(
+                    s.d, l, k.diodes[j], optimisation::make_setting(s.range, s.base, x));
+                EXPECT_FALSE(e.feasible)
+                    << l.id << " (" << near[n].first << " of its screen's bound) with "
+                    << k.diodes[j].id << " at " << x;
+            }
+    }
+}
+
 TEST_P(Bounds, JunctionScreenedDiodesAreInfeasibleEverywhere) {
     Case s(GetParam());
     const auto& k = starter();
@@ -742,7 +783,7 @@ TEST(BoundsCurrent, FeasiblePairsKeepTheirCurrentWithinTheShares) {
         const Case s(file);
         ASSERT_EQ(s.d.limits.current_error, 0.05) << "the default limit";
         std::size_t feasible = 0, outside_when_lifted = 0;
-        for_random_pairs(s, file, 17, 12000, [&](const Draw& p) {
+        for_random_pairs(s, file, 17, 16000, [&](const Draw& p) {
             auto lifted = p.d;
             lifted.limits.current_error = 1.0;
             const auto e = converter::evaluate_pair(lifted, p.l, p.di, p.setting);
@@ -765,6 +806,7 @@ TEST(BoundsCurrent, FeasiblePairsKeepTheirCurrentWithinTheShares) {
         EXPECT_GT(feasible, 100u) << file;
         RecordProperty(std::string("outside_when_lifted_") + file,
                        std::to_string(outside_when_lifted));
+        RecordProperty(std::string("feasible_") + file, std::to_string(feasible));
         if (std::string(file) == "workshop-floodlight.json") {
             EXPECT_GT(outside_when_lifted, 0u) << "the sample should reach the delay's skew";
         }

@@ -38,8 +38,8 @@ TEST(Rank, ScreeningRemovesTheSaturatingInductorAndTheLowVoltageDiode) {
         ASSERT_FALSE(s.reasons.empty());
         if (s.inductor) {
             EXPECT_EQ(L()[s.index].id, "L-SAT");
-            // 0.95·(0.7 A + 0.05·0.7 A/2) = 0.682 A > 0.8·0.6 A = 0.48 A (by construction; 0.95
-            // from the default 5 % limit on the current's error).
+            // The peak reaches the upper threshold at least: 0.7 A + 0.05·0.7 A/2 = 0.7175 A >
+            // 0.8·0.6 A = 0.48 A (by construction).
             EXPECT_EQ(s.reasons.front().limit, "isat");
             EXPECT_NEAR(s.reasons.front().bound, 0.48, 1e-12);
         } else {
