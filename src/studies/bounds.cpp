@@ -41,6 +41,7 @@ struct CornerParts {
     bool capacitor = false;
     double cap = 0.0, esr = 0.0; // F, Ω of the output capacitor when it takes ripple
     double off_own = 0.0;        // the diode's charge share with this winding (off_share_with)
+    double drop_at_cap = 0.0;    // drop_max at the saturation ceiling, where every stretch starts
     // With a diode: its forward law at the ambient, 1 K below it and at the junction limit.
     parts::ForwardLaw vf_ambient, vf_below, vf_limit;
 };
@@ -98,6 +99,7 @@ public:
                 p.vf_below = diode_->forward_at(k.ambient - 1.0);
                 p.vf_limit = diode_->forward_at(std::max(k.ambient, tj_bound_));
             }
+            p.drop_at_cap = drop_max(std::max(0.0, peak_cap_), p);
             parts_.push_back(p);
         }
     }
@@ -208,6 +210,15 @@ public:
                 b1 = band_at(c_, k, x1);
                 b2 = band_at(c_, k, x2);
             }
+            // drop_max at the last current asked (each costs two logarithms).
+            double drop_i = std::max(0.0, peak_cap_), drop_v = p.drop_at_cap;
+            auto drop_at = [&](double i) {
+                if (i != drop_i) {
+                    drop_i = i;
+                    drop_v = drop_max(i, p);
+                }
+                return drop_v;
+            };
             for (int pass = 0; pass < 2; ++pass) {
                 if (hysteretic(c_)) {
                     peak_ub = std::min(peak_ub, i_target + b2 / 2.0 + td * von_ub / l_lo);
@@ -215,14 +226,13 @@ public:
                     // PWM: ΔI <= T·g_ub/L_lo (the flux swing, as below); in CCM the valley is
                     // below the mean, and in DCM the charge I·T >= L_lo·peak²/(2·g_ub) gives
                     // peak <= sqrt(2·I·ΔI) <= I + ΔI: either way peak <= I + ΔI.
-                    const double voff =
-                        vload_ub(peak_ub) + drop_max(peak_ub, p) + peak_ub * p.r_off_ub;
+                    const double voff = vload_ub(peak_ub) + drop_at(peak_ub) + peak_ub * p.r_off_ub;
                     peak_ub = std::min(peak_ub, k.current_ub() +
                                                     volt_second_rate(von_ub, voff) / (l_lo * x1));
                 }
                 l_lo = std::max(l_lo, m_.inductance(peak_ub, k.l_scale));
             }
-            const double drop_peak = drop_max(peak_ub, p);
+            const double drop_peak = drop_at(peak_ub);
             voff_ub = vload_ub(peak_ub) + drop_peak + peak_ub * p.r_off_ub;
             const double von_lb = std::max(0.0, k.vin - vload_ub(peak_ub) - peak_ub * p.r_on_ub);
             const double g_ub = volt_second_rate(von_ub, voff_ub);
@@ -331,8 +341,13 @@ public:
                 dcm_certain = di_ccm > 2.0 * i_ub;
                 // The off-voltage never falls below its value at the valley, the on-voltage
                 // never rises above it.
+                double voff_i = -1.0, voff_v = 0.0; // the last asked (two logarithms each)
                 auto voff_at = [&](double valley) {
-                    return vload_lb(valley) + valley * p.r_off_lb + drop_min(valley, p);
+                    if (valley != voff_i) {
+                        voff_i = valley;
+                        voff_v = vload_lb(valley) + valley * p.r_off_lb + drop_min(valley, p);
+                    }
+                    return voff_v;
                 };
                 auto von_at = [&](double valley) {
                     return std::max(0.0, k.vin - vload_lb(valley) - valley * p.r_on_lb);
