@@ -805,7 +805,8 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
     // leakage gives it a second, hot balance, this finds the one a real part settles at (a start
     // nearer the answer, or from a neighbouring setting, can land on the other). The winding has
     // one balance (its loss only grows with temperature), so any start finds it: it starts at
-    // the rise its DC copper loss at the ambient gives, near the balance, which saves a pass.
+    // the rise its DC copper loss at the ambient gives, near the balance (below it unless a
+    // hysteretic average sits under its target), which saves a pass.
     double t_l = amb + l.rth * l.dcr(amb, c.dcr_max) * target * target, tj = amb;
     double lin_lo = hysteretic ? i_lo : 0.9 * target;
     double lin_hi = hysteretic ? i_hi : 1.1 * target;
@@ -1114,7 +1115,8 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
         bool back_l = steps_l.landed_past(dl);
         bool back_j = steps_j.landed_past(dj);
         const bool settled = steps_l.settled(dl) && steps_j.settled(dj) && states_settled;
-        const bool runaway_l = t_l_new > l.t_max + inductor_runaway_margin;
+        // Still heating past the margin: a winding started above its balance falls towards it.
+        const bool runaway_l = t_l_new > l.t_max + inductor_runaway_margin && t_l_new > t_l;
         const bool runaway_j = tj_new > diode.tj_max + diode_runaway_margin && leak > p_cond;
         if (settled || runaway_l || runaway_j) {
             if (steps_l.unconfirmed) {

@@ -51,8 +51,8 @@ struct EnvelopeCorner {
     bool dcr_max = false; // the corner takes the maximum DCR
     bool nominal = false; // the loss objective is taken here
     double weight = 0.0;  // its share of the loss objective (charge profile time)
-    // The average current of a feasible pair is at least this share of `current`, and at most
-    // `current` over it (average_current_share).
+    // The average current of a feasible pair is at least this share of `current` and at most
+    // (2 − share) times it (average_current_share).
     double current_share = pwm_current_share;
     double current_lb() const { return current_share * current; }
     double current_ub() const { return (2.0 - current_share) * current; }
