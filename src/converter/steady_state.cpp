@@ -546,12 +546,15 @@ double brent_root(F&& f, double a, double b, double fa, double fb, double xtol, 
     return b;
 }
 
-// The averaged model's dI/dD for a load v0 + r·I behind the two intervals' sources E_on = Vin,
-// E_off = −V_d0 and resistances: I·(r + R_off + (R_on − R_off)·D) = D·E_on + (1 − D)·E_off − v0.
-double averaged_duty_slope(double vin, double vd0, double r_on, double r_off, double r_load,
-                           double current, double duty) {
-    return (vin + vd0 - (r_on - r_off) * current) / (r_load + r_off + (r_on - r_off) * duty);
+// The averaged model's dI/dD (Erickson & Maksimović 2nd ed. ch. 3) for two intervals whose
+// sources differ by `de` (E_on − E_off) and whose series resistances, the load's included, are
+// r_on and r_off: I·(r_off + (r_on − r_off)·D) = D·E_on + (1 − D)·E_off.
+double averaged_duty_slope(double de, double r_on, double r_off, double current, double duty) {
+    return (de - (r_on - r_off) * current) / (r_off + (r_on - r_off) * duty);
 }
+
+// The duty searches stop when the average current is this close to its target (relative).
+constexpr double duty_current_tol = 1e-10;
 
 // A root of an increasing f by secant steps from x0 with a first slope guess, within (d_min,
 // d_max); 0 when it does not reach |f| <= ftol in a few steps (the caller then brackets).
@@ -577,13 +580,10 @@ bool solve_duty(const Segment& on, const Segment& off, double period, double tar
         const Wave w = pwm_wave(on, off, period, d, false);
         return (w.q_on + w.q_off) / period - target;
     };
-    // Secant steps from the guess on the averaged model's slope, dI/dD = (E_on − E_off −
-    // I·(R_on − R_off))/(R_on·D + R_off·(1 − D)) (Erickson & Maksimović 2nd ed. ch. 3), mostly
-    // meet the tolerance in two or three solves; the bracket and Brent take over when they do not
-    // (DCM bends the curve).
-    const double ftol = 1e-10 * target;
-    const double slope =
-        (on.e - off.e - target * (on.r - off.r)) / (on.r * guess + off.r * (1.0 - guess));
+    // Secant steps from the guess on the averaged model's slope mostly meet the tolerance in two
+    // or three solves; the bracket and Brent take over when they do not (DCM bends the curve).
+    const double ftol = duty_current_tol * target;
+    const double slope = averaged_duty_slope(on.e - off.e, on.r, off.r, target, guess);
     if (const double d = secant_root(g, std::clamp(guess, d_min, d_max), slope, ftol); d > 0.0) {
         duty = d;
         return true;
@@ -993,12 +993,12 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
                 // the averaged model's slope (Erickson & Maksimović 2nd ed. ch. 3), then secant
                 // steps, mostly meet the tolerance in two or three solves; Brent on a bracket
                 // takes over when they do not.
-                const double ftol = 1e-10 * target;
-                double d2 =
-                    secant_root(g2, std::clamp(center, d_min, d_max),
-                                averaged_duty_slope(vin, vd0, ron + r_sense + dcr,
-                                                    r_sense + dcr + rd, r_load, target_lin, center),
-                                ftol);
+                const double ftol = duty_current_tol * target;
+                double d2 = secant_root(g2, std::clamp(center, d_min, d_max),
+                                        averaged_duty_slope(vin + vd0, r_load + ron + r_sense + dcr,
+                                                            r_load + r_sense + dcr + rd, target_lin,
+                                                            center),
+                                        ftol);
                 if (!(d2 > 0.0)) {
                     double da = std::max(d_min, center - half);
                     double db = std::min(d_max, center + half);
