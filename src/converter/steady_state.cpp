@@ -810,36 +810,30 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
     double t_l = amb + l.rth * l.dcr(amb, c.dcr_max) * target * target, tj = amb;
     double lin_lo = hysteretic ? i_lo : 0.9 * target;
     double lin_hi = hysteretic ? i_hi : 1.1 * target;
+    double i_avg_prev = target;
+    const double l_eff = l.inductance(target, c.l_scale);
+    const double vo_target = v0 + r_load * target; // the load's voltage at the target
+    const bool lossless_ok = vin > vo_target && vo_target > 0.0 && l_eff > 0.0;
     // First linearisation spans near the answer's: the valley and peak, which the roll-off's
     // effective L (and under PWM its charge correction) are taken over, then settle in fewer
     // passes. Hysteretic: the thresholds plus the delay's overshoots t_d·V/L; PWM: the lossless
     // CCM ripple (Vin − Vo)·D/(L·f), D = Vo/Vin (domain notes).
-    {
-        const double vo = v0 + r_load * target;
-        const double l_t = l.inductance(target, c.l_scale);
-        if (vin > vo && vo > 0.0 && l_t > 0.0) {
-            if (hysteretic) {
-                lin_hi = i_hi + td * (vin - vo) / l_t;
-                lin_lo = std::max(0.0, i_lo - td * vo / l_t);
-            } else {
-                const double half = std::min(0.5 * (vin - vo) * (vo / vin) * period / l_t, target);
-                lin_lo = target - half;
-                lin_hi = target + half;
-            }
-        }
+    if (lossless_ok && hysteretic) {
+        lin_hi = i_hi + td * (vin - vo_target) / l_eff;
+        lin_lo = std::max(0.0, i_lo - td * vo_target / l_eff);
+    } else if (lossless_ok) {
+        const double half =
+            std::min(0.5 * (vin - vo_target) * (vo_target / vin) * period / l_eff, target);
+        lin_lo = target - half;
+        lin_hi = target + half;
     }
-    double i_avg_prev = target;
-    const double l_eff = l.inductance(target, c.l_scale);
+    // Straight-line lossless estimate (domain notes) only to start the capacitor's divider.
     double f_prev = 0.0;
-    {
-        // Straight-line lossless estimate (domain notes) only to start the capacitor's divider.
-        const double vo = v0 + r_load * target;
-        if (hysteretic) {
-            const double di = i_hi - i_lo + td * vin / l_eff;
-            f_prev = vin > vo && vo > 0.0 ? vo * (vin - vo) / (vin * l_eff * di) : 1e5;
-        } else {
-            f_prev = 1.0 / period;
-        }
+    if (hysteretic) {
+        const double di = i_hi - i_lo + td * vin / l_eff;
+        f_prev = lossless_ok ? vo_target * (vin - vo_target) / (vin * l_eff * di) : 1e5;
+    } else {
+        f_prev = 1.0 / period;
     }
     double duty_prev = -1.0;
     double omega = 1.0;
