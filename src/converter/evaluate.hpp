@@ -58,25 +58,6 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
 
 // One limit checked at one corner. margin = (bound - value)/|bound| for upper limits, the
 // opposite for lower ones: >= 0 holds, < 0 broken. The optimiser uses margins as constraints.
-// A corner's name as the checks of one evaluation share it: copied by a reference count, not an
-// allocation (an evaluation holds dozens of checks, and the optimiser makes millions).
-class SharedName {
-public:
-    SharedName() = default;
-    SharedName(std::string s) : p_(std::make_shared<const std::string>(std::move(s))) {}
-    SharedName(const char* s) : SharedName(std::string(s)) {}
-    const std::string& str() const noexcept { return p_ ? *p_ : empty_; }
-    operator const std::string&() const noexcept { return str(); }
-    bool empty() const noexcept { return str().empty(); }
-    friend bool operator==(const SharedName& a, const SharedName& b) { return a.str() == b.str(); }
-    friend bool operator==(const SharedName& a, const std::string& b) { return a.str() == b; }
-    friend bool operator==(const SharedName& a, const char* b) { return a.str() == b; }
-    friend std::ostream& operator<<(std::ostream& o, const SharedName& n) { return o << n.str(); }
-
-private:
-    std::shared_ptr<const std::string> p_;
-    static inline const std::string empty_;
-};
 
 struct LimitCheck {
     std::string limit;  // "load_ripple", "f_sw_max", "isat", "vrrm", "tj_max", ...

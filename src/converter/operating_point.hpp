@@ -4,7 +4,9 @@
 
 #include "loads/load.hpp"
 
+#include <memory>
 #include <optional>
+#include <ostream>
 #include <string>
 #include <vector>
 
@@ -18,9 +20,33 @@ struct Setting {
     friend bool operator==(const Setting&, const Setting&) = default;
 };
 
+// A corner's name as its results and the checks of every evaluation share it: copied by a reference
+// count, not an allocation (an evaluation holds dozens of checks, and the optimiser makes
+// millions).
+class SharedName {
+public:
+    SharedName() = default;
+    SharedName(std::string s) : p_(std::make_shared<const std::string>(std::move(s))) {}
+    SharedName(const char* s) : SharedName(std::string(s)) {}
+    const std::string& str() const noexcept { return p_ ? *p_ : empty_; }
+    operator const std::string&() const noexcept { return str(); }
+    bool empty() const noexcept { return str().empty(); }
+    friend bool operator==(const SharedName& a, const SharedName& b) { return a.str() == b.str(); }
+    friend bool operator==(const SharedName& a, const std::string& b) { return a.str() == b; }
+    friend bool operator==(const SharedName& a, const char* b) { return a.str() == b; }
+    friend std::ostream& operator<<(std::ostream& o, const SharedName& n) { return o << n.str(); }
+    friend std::string operator+(std::string a, const SharedName& b) { return a += b.str(); }
+    friend std::string operator+(const SharedName& a, const std::string& b) { return a.str() + b; }
+    friend std::string operator+(const SharedName& a, const char* b) { return a.str() + b; }
+
+private:
+    std::shared_ptr<const std::string> p_;
+    static inline const std::string empty_;
+};
+
 // One operating corner: supply, ambient, load point and part tolerances.
 struct Corner {
-    std::string name;        // "vin-min/hot/L-tol", "cc-start/hot", ...
+    SharedName name;         // "vin-min/hot/L-tol", "cc-start/hot", ...
     double vin = 0.0;        // V
     double ambient = 298.15; // K
     double l_scale = 1.0;    // multiplies nominal inductance (1 - tol, 1, 1 + tol)
@@ -51,7 +77,7 @@ enum class CornerStatus {
 };
 
 struct CornerResult {
-    std::string name;
+    SharedName name;
     double vin = 0.0;
     double ambient = 0.0; // K
     double duty = 0.0;

@@ -122,7 +122,6 @@ PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
     const double tj_bound = lim.tj_max ? std::min(dm.tj_max, *lim.tj_max) : dm.tj_max;
     const double vr_bound = lim.vrrm_derating * diode.vrrm;
     const double id_bound = lim.diode_current_derating * diode.if_avg;
-    const std::string pct_isat = fmt(lim.isat_derating, Dimension::ratio);
     // Shorter pulses never reach the states the waveform and loss models assume.
     const double t_on_bound = design::shortest_on_time(d);
     const double t_off_bound = design::shortest_off_time(d);
@@ -147,7 +146,7 @@ PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
     for (std::size_t k = 0; k < corners.size(); ++k) {
         const Corner& c = corners[k];
         const CornerResult& r = e.corners[k];
-        const SharedName cn(r.name); // one allocation for all of this corner's checks
+        const SharedName& cn = r.name;
         if (r.status != CornerStatus::ok) {
             const bool regulation = r.status == CornerStatus::no_regulation;
             const std::string_view limit = r.status == CornerStatus::thermal_runaway
@@ -217,8 +216,8 @@ PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
         }
         check.upper("isat", cn, r.il_peak, isat_bound, [&] {
             const auto [v, b] = apart(r.il_peak, isat_bound, Dimension::current);
-            return "peak inductor current " + v + " exceeds " + pct_isat + " of Isat (" + b + ")" +
-                   at(cn);
+            return "peak inductor current " + v + " exceeds " +
+                   fmt(lim.isat_derating, Dimension::ratio) + " of Isat (" + b + ")" + at(cn);
         });
         check.upper("inductor_rms", cn, r.il_rms, l.irms, [&] {
             const auto [v, b] = apart(r.il_rms, l.irms, Dimension::current);
@@ -243,12 +242,12 @@ PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
 
     // Nominal figures: the nominal corner, or the time-weighted charge profile.
     double w_sum = 0.0, loss = 0.0, p_out = 0.0;
-    std::string nominal_name;
+    const Corner* nominal = nullptr;
     int nominal_count = 0;
     for (std::size_t k = 0; k < corners.size(); ++k) {
         if (!corners[k].nominal) continue;
         ++nominal_count;
-        nominal_name = corners[k].name;
+        nominal = &corners[k];
         const CornerResult& r = e.corners[k];
         if (r.status != CornerStatus::ok) continue; // already a violation; leave it out of the sums
         const double w = corners[k].weight > 0.0 ? corners[k].weight : 0.0;
@@ -260,13 +259,16 @@ PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
         e.loss_nominal = loss / w_sum;
         e.efficiency_nominal = p_out + loss > 0.0 ? p_out / (p_out + loss) : 0.0;
     }
-    if (nominal_count > 1) nominal_name = "charge profile (time-weighted)";
-
-    if (lim.efficiency_min)
+    if (lim.efficiency_min) {
+        const SharedName nominal_name = nominal_count > 1
+                                            ? SharedName("charge profile (time-weighted)")
+                                        : nominal != nullptr ? nominal->name
+                                                             : SharedName();
         check.lower("efficiency_min", nominal_name, e.efficiency_nominal, *lim.efficiency_min, [&] {
             const auto [v, b] = apart(e.efficiency_nominal, *lim.efficiency_min, Dimension::ratio);
             return "efficiency " + v + " is below the minimum " + b + at(nominal_name);
         });
+    }
     if (lim.height_max) {
         check.fixed_upper("height_max", {}, l.height, *lim.height_max, [&] {
             return "inductor \"" + l.id + "\" is " + fmt(l.height, Dimension::length) +

@@ -18,7 +18,6 @@
 
 #include <algorithm>
 #include <cmath>
-#include <complex>
 #include <limits>
 #include <numbers>
 #include <string>
@@ -632,13 +631,14 @@ RipplePath ripple_path(double r, double capacitance, double esr, double frequenc
     RipplePath p;
     p.r_ripple = r;
     if (!(capacitance > 0.0) || !(r > 0.0) || !(frequency > 0.0)) return p;
-    const double w = 2.0 * std::numbers::pi * frequency;
-    const std::complex<double> zc(esr, -1.0 / (w * capacitance));
-    const std::complex<double> sum = zc + r;
-    p.k_load = std::abs(zc / sum);
-    const double kc = r / std::abs(sum);
-    p.k_cap2 = kc * kc;
-    p.r_ripple = (r * zc / sum).real();
+    // In real arithmetic (X = 1/(ωC), Z_c = ESR − jX): no complex division on the hot path.
+    const double x = 1.0 / (2.0 * std::numbers::pi * frequency * capacitance);
+    const double rs = r + esr;
+    const double sum2 = rs * rs + x * x; // |Z_c + r|²
+    if (!std::isfinite(sum2)) return p;  // the capacitor is open at this frequency
+    p.k_load = std::sqrt((esr * esr + x * x) / sum2);
+    p.k_cap2 = r * r / sum2;
+    p.r_ripple = r * (esr * rs + x * x) / sum2; // Re(r·Z_c·conj(Z_c + r))/|Z_c + r|²
     return p;
 }
 
