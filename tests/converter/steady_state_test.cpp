@@ -4,6 +4,7 @@
 
 #include <cmath>
 #include <gtest/gtest.h>
+#include <numbers>
 
 namespace coilsieve::converter {
 namespace {
@@ -284,6 +285,21 @@ TEST(LoadRipple, HystereticWithCapacitorIsTheTrianglesThroughTheDivider) {
     // The first-harmonic figure differs by more than that here: the test can tell them apart.
     const double first = load_ripple_share(rl, c, 0.01, r.f_sw) * r.il_ripple_pp;
     EXPECT_GT(std::abs(first - ref), 0.03 * ref);
+}
+
+// The current divider with complex impedances, I_load/I = Z_c/(Z_c + r) (Alexander & Sadiku,
+// Fundamentals of Electric Circuits, 5th ed., sec. 9.7; section from memory), worked by hand at
+// the frequency where the capacitor's reactance equals the load's 1 Ω.
+TEST(LoadRipple, FirstHarmonicShareIsTheCurrentDivider) {
+    const double f = 1.0 / (2.0 * std::numbers::pi); // X = 1/(2πfC) = 1 Ω with C = 1 F
+    EXPECT_NEAR(load_ripple_share(1.0, 1.0, 0.0, f), std::sqrt(0.5), 1e-12); // |−j/(1 − j)|
+    EXPECT_NEAR(load_ripple_share(1.0, 1.0, 1.0, f), std::sqrt(2.0 / 5.0),
+                1e-12); // |(1 − j)/(2 − j)|
+    // No capacitor, or one open at this frequency: the load takes it all.
+    EXPECT_EQ(load_ripple_share(1.0, 0.0, 0.0, f), 1.0);
+    EXPECT_NEAR(load_ripple_share(1.0, 1e-300, 0.0, 1.0), 1.0, 1e-12);
+    // A short at high frequency leaves the ESR's share, ESR/(ESR + r).
+    EXPECT_NEAR(load_ripple_share(3.0, 1.0, 1.0, 1e12), 0.25, 1e-9);
 }
 
 // A capacitor far larger than the period needs (τ = r·C ≫ T) takes all the ripple's charge, and
