@@ -8,6 +8,7 @@
 #include <cmath>
 #include <map>
 #include <numbers>
+#include <numeric>
 #include <queue>
 #include <string>
 #include <vector>
@@ -729,6 +730,46 @@ double diode_switching(const SettingStretch& s, const DiodeBound& d) {
     return d.e_switch * s.f + d.qrr_per_amp * s.f_valley_v;
 }
 
+// pair_loss_within's refinement: best first over halvings of the stretches under the cap
+// (`cap` with its round-off allowance), a node's bound taken no lower than its parent's, so the
+// first node popped at full depth holds the least over all parts, and the least node left bounds
+// them all (enough to stop once it reaches `enough`). Never below `coarse`.
+double split_loss_within(const InductorBounder& bounder, const ScreenContext& c,
+                         const DiodeBound& d, double k, double cap,
+                         const std::vector<const SettingStretch*>& under, double enough,
+                         double coarse) {
+    struct Node {
+        double loss; // lower bound of the loss over the node's settings
+        double x1, x2;
+        int depth;
+        bool operator>(const Node& o) const { return loss > o.loss; }
+    };
+    std::priority_queue<Node, std::vector<Node>, std::greater<Node>> open;
+    for (const auto* st : under) open.push({st->loss + diode_switching(*st, d), st->x1, st->x2, 0});
+    const auto& r = c.range;
+    double loss = INFINITY;
+    while (!open.empty()) {
+        const Node n = open.top();
+        open.pop();
+        if (n.depth == probe_halvings || n.loss + d.loss + c.loss_floor >= enough) {
+            loss = n.loss;
+            break;
+        }
+        const double xm = r.log_scale && n.x1 > 0.0 ? std::sqrt(n.x1 * n.x2) : 0.5 * (n.x1 + n.x2);
+        for (const auto& [a, z] : {std::pair{n.x1, xm}, std::pair{xm, n.x2}}) {
+            const auto part = bounder.stretch(a, z);
+            if (!part) continue; // no setting there meets the limits: the tuned one is elsewhere
+            const double sw = diode_switching(*part, d);
+            if (part->score + k * sw + d.score <= cap)
+                open.push({std::max(n.loss, part->loss + sw), a, z, n.depth + 1});
+        }
+    }
+    // A stretch's parts cover it, so the probe's own point lies in one that qualifies; none at all
+    // means round-off at the cap: the coarse value stands.
+    if (!std::isfinite(loss)) return coarse;
+    return std::max(coarse, loss + d.loss + c.loss_floor);
+}
+
 } // namespace
 
 double pair_score_bound(const ScreenContext& c, const InductorBound& l, const DiodeBound& d,
@@ -757,39 +798,7 @@ std::optional<PairFloors> pair_floors_above(const ScreenContext& c, const parts:
                                             const optimisation::Scales& s,
                                             const std::vector<EnvelopeCorner>& corners,
                                             double loss_enough, double score_enough) {
-    const double k = c.design->weights.loss / s.power;
-    PairFloors out;
-    if (!b.feasible) return out; // no setting meets the limits with any diode
-    auto loss_of = [&](const SettingStretch& st) {
-        return st.loss + diode_switching(st, d) + d.loss + c.loss_floor;
-    };
-    auto score_of = [&](const SettingStretch& st) {
-        return st.score + k * diode_switching(st, d) + d.score;
-    };
-    // The stretches in doubt, least loss first: the one most likely to stay below comes first.
-    std::vector<const SettingStretch*> doubt;
-    for (const auto& st : b.stretches) {
-        const double loss = loss_of(st), score = score_of(st);
-        if (loss <= loss_enough || score <= score_enough) {
-            doubt.push_back(&st);
-            continue;
-        }
-        out.loss = std::min(out.loss, loss);
-        out.score = std::min(out.score, score);
-    }
-    if (doubt.empty()) return out;
-    std::stable_sort(doubt.begin(), doubt.end(),
-                     [&](const auto* x, const auto* y) { return loss_of(*x) < loss_of(*y); });
-    const InductorBounder bounder(c, l, m, s, corners, &diode, &d);
-    for (const auto* st : doubt) {
-        const auto part = bounder.stretch(st->x1, st->x2);
-        if (!part) continue; // no setting there meets the limits with this diode
-        const double loss = loss_of(*part), score = score_of(*part);
-        if (loss <= loss_enough || score <= score_enough) return std::nullopt;
-        out.loss = std::min(out.loss, loss);
-        out.score = std::min(out.score, score);
-    }
-    return out;
+    return PairBound(c, l, m, b, diode, d, s, corners).floors_above(loss_enough, score_enough);
 }
 
 double pair_loss_within(const ScreenContext& c, const InductorBound& l, const DiodeBound& d,
@@ -815,43 +824,11 @@ double pair_loss_within(const ScreenContext& c, const parts::Inductor& l,
     if (coarse >= enough) return coarse;
     const double k = c.design->weights.loss / s.power;
     const double cap = score_cap + 1e-9 * (1.0 + std::abs(score_cap));
-    // Best first over halvings of the stretches under the cap: a node's bound is taken no lower
-    // than its parent's, so the first node popped at full depth holds the least over all parts,
-    // and the least node left bounds them all (enough to stop once it reaches `enough`).
-    struct Node {
-        double loss; // lower bound of the loss over the node's settings
-        double x1, x2;
-        int depth;
-        bool operator>(const Node& o) const { return loss > o.loss; }
-    };
-    std::priority_queue<Node, std::vector<Node>, std::greater<Node>> open;
-    for (const auto& st : b.stretches) {
-        const double sw = diode_switching(st, d);
-        if (st.score + k * sw + d.score <= cap) open.push({st.loss + sw, st.x1, st.x2, 0});
-    }
+    std::vector<const SettingStretch*> under;
+    for (const auto& st : b.stretches)
+        if (st.score + k * diode_switching(st, d) + d.score <= cap) under.push_back(&st);
     const InductorBounder bounder(c, l, m, s, corners, &diode, &d);
-    const auto& r = c.range;
-    double loss = INFINITY;
-    while (!open.empty()) {
-        const Node n = open.top();
-        open.pop();
-        if (n.depth == probe_halvings || n.loss + d.loss + c.loss_floor >= enough) {
-            loss = n.loss;
-            break;
-        }
-        const double xm = r.log_scale && n.x1 > 0.0 ? std::sqrt(n.x1 * n.x2) : 0.5 * (n.x1 + n.x2);
-        for (const auto& [a, z] : {std::pair{n.x1, xm}, std::pair{xm, n.x2}}) {
-            const auto part = bounder.stretch(a, z);
-            if (!part) continue; // no setting there meets the limits: the tuned one is elsewhere
-            const double sw = diode_switching(*part, d);
-            if (part->score + k * sw + d.score <= cap)
-                open.push({std::max(n.loss, part->loss + sw), a, z, n.depth + 1});
-        }
-    }
-    // A stretch's parts cover it, so the probe's own point lies in one that qualifies; none at all
-    // means round-off at the cap: the coarse value stands.
-    if (!std::isfinite(loss)) return coarse;
-    return std::max(coarse, loss + d.loss + c.loss_floor);
+    return split_loss_within(bounder, c, d, k, cap, under, enough, coarse);
 }
 
 std::optional<std::pair<double, double>> open_settings(const InductorBound& b) {
@@ -879,6 +856,201 @@ std::optional<double> pair_best_setting(const ScreenContext& c, const InductorBo
     if (best == nullptr) return std::nullopt;
     if (c.range.log_scale && best->x1 > 0.0) return std::sqrt(best->x1 * best->x2);
     return 0.5 * (best->x1 + best->x2);
+}
+
+struct PairBound::State {
+    State(const ScreenContext& c_, const parts::Inductor& l, const parts::InductorModel& m,
+          const InductorBound& b_, const parts::DiodeModel& diode, const DiodeBound& d_,
+          const optimisation::Scales& s, const std::vector<EnvelopeCorner>& corners)
+        : c(c_), b(b_), d(d_), k(c_.design->weights.loss / s.power),
+          bounder(c_, l, m, s, corners, &diode, &d_), pair(b_.stretches.size()) {}
+
+    const ScreenContext& c;
+    const InductorBound& b;
+    const DiodeBound& d;
+    double k; // the score's weight on loss, per watt
+    InductorBounder bounder;
+    // Outer: evaluated with the diode; inner: open with it.
+    std::vector<std::optional<std::optional<SettingStretch>>> pair;
+    std::vector<std::size_t> by_bound; // stretches in ascending order of the inductor's value
+    std::size_t next = 0;              // the first of by_bound not yet taken
+    std::optional<std::size_t> best;   // the best stretch taken so far
+
+    const std::optional<SettingStretch>& at(std::size_t i) {
+        auto& p = pair[i];
+        if (!p) p = bounder.stretch(b.stretches[i].x1, b.stretches[i].x2);
+        return *p;
+    }
+    // The stretch as known now: the pair's own when evaluated (null when closed), else the
+    // inductor's, which bounds it for every diode.
+    const SettingStretch* known(std::size_t i) const {
+        const auto& p = pair[i];
+        if (!p) return &b.stretches[i];
+        return *p ? &**p : nullptr;
+    }
+    double value(const SettingStretch& st) const { return st.score + k * diode_switching(st, d); }
+    double loss(const SettingStretch& st) const { return st.loss + diode_switching(st, d); }
+
+    // Takes stretches in ascending order of the inductor's loss until the next one's is no lower
+    // than the least found with the diode, so that the least over `known` is the pair's own.
+    void settle_loss() {
+        std::vector<std::size_t> order(b.stretches.size());
+        std::iota(order.begin(), order.end(), std::size_t{0});
+        std::stable_sort(order.begin(), order.end(), [&](std::size_t x, std::size_t y) {
+            return loss(b.stretches[x]) < loss(b.stretches[y]);
+        });
+        double least = INFINITY;
+        for (std::size_t i : order) {
+            if (pair[i] && *pair[i]) least = std::min(least, loss(**pair[i]));
+        }
+        for (std::size_t i : order) {
+            if (loss(b.stretches[i]) >= least) break;
+            if (const auto& st = at(i)) least = std::min(least, loss(*st));
+        }
+    }
+
+    // Takes stretches best first until the next one's inductor value is above the best found
+    // (ties by position, as pair_best_setting): without a best, every stretch is taken.
+    void settle_best() {
+        if (by_bound.empty() && !b.stretches.empty()) {
+            by_bound.resize(b.stretches.size());
+            std::iota(by_bound.begin(), by_bound.end(), std::size_t{0});
+            std::stable_sort(by_bound.begin(), by_bound.end(), [&](std::size_t x, std::size_t y) {
+                return value(b.stretches[x]) < value(b.stretches[y]);
+            });
+        }
+        while (next < by_bound.size()) {
+            const std::size_t i = by_bound[next];
+            const double best_v = best ? value(**pair[*best]) : INFINITY;
+            if (value(b.stretches[i]) > best_v) break;
+            ++next;
+            const auto& st = at(i);
+            if (!st) continue;
+            const double v = value(*st);
+            if (!best || v < best_v || (v == best_v && i < *best)) best = i;
+        }
+    }
+};
+
+PairBound::PairBound(const ScreenContext& c, const parts::Inductor& l,
+                     const parts::InductorModel& m, const InductorBound& b,
+                     const parts::DiodeModel& diode, const DiodeBound& d,
+                     const optimisation::Scales& s, const std::vector<EnvelopeCorner>& corners)
+    : state_(std::make_unique<State>(c, l, m, b, diode, d, s, corners)) {}
+
+PairBound::~PairBound() = default;
+
+std::optional<PairFloors> PairBound::floors_above(double loss_enough, double score_enough) {
+    State& t = *state_;
+    PairFloors out;
+    if (!t.b.feasible) return out; // no setting meets the limits with any diode
+    // Summed in the order of pair_optimistic and pair_score_bound: the same stretch gives the
+    // same figure to the last bit.
+    auto loss_of = [&](const SettingStretch& st) { return t.loss(st) + t.d.loss + t.c.loss_floor; };
+    // The stretches in doubt, least loss first: the one most likely to stay below comes first.
+    std::vector<std::size_t> doubt;
+    for (std::size_t i = 0; i < t.b.stretches.size(); ++i) {
+        const auto& st = t.b.stretches[i];
+        const double loss = loss_of(st), score = t.value(st) + t.d.score;
+        if (loss <= loss_enough || score <= score_enough) {
+            doubt.push_back(i);
+            continue;
+        }
+        out.loss = std::min(out.loss, loss);
+        out.score = std::min(out.score, score);
+    }
+    std::stable_sort(doubt.begin(), doubt.end(), [&](std::size_t x, std::size_t y) {
+        return t.loss(t.b.stretches[x]) < t.loss(t.b.stretches[y]);
+    });
+    for (std::size_t i : doubt) {
+        const auto& part = t.at(i);
+        if (!part) continue; // no setting there meets the limits with this diode
+        const double loss = loss_of(*part), score = t.value(*part) + t.d.score;
+        if (loss <= loss_enough || score <= score_enough) return std::nullopt;
+        out.loss = std::min(out.loss, loss);
+        out.score = std::min(out.score, score);
+    }
+    return out;
+}
+
+bool PairBound::feasible() {
+    State& t = *state_;
+    if (!t.b.feasible || t.b.stretches.empty()) return t.b.feasible;
+    t.settle_best();
+    return t.best.has_value();
+}
+
+std::optional<std::pair<double, double>> PairBound::open() {
+    State& t = *state_;
+    const auto& st = t.b.stretches;
+    if (!t.b.feasible || st.empty()) return std::nullopt;
+    // From each end inwards to the first stretch that stays open: the hull of the open ones.
+    std::vector<std::size_t> order(st.size());
+    std::iota(order.begin(), order.end(), std::size_t{0});
+    std::stable_sort(order.begin(), order.end(),
+                     [&](std::size_t x, std::size_t y) { return st[x].x1 < st[y].x1; });
+    double lo = INFINITY, hi = -INFINITY;
+    for (std::size_t i : order)
+        if (t.at(i)) {
+            lo = st[i].x1;
+            break;
+        }
+    if (!std::isfinite(lo)) return std::nullopt;
+    std::stable_sort(order.begin(), order.end(),
+                     [&](std::size_t x, std::size_t y) { return st[x].x2 > st[y].x2; });
+    for (std::size_t i : order)
+        if (t.at(i)) {
+            hi = st[i].x2;
+            break;
+        }
+    return std::make_pair(lo, hi);
+}
+
+std::optional<double> PairBound::best_setting() {
+    State& t = *state_;
+    if (!t.b.feasible || t.b.stretches.empty()) return std::nullopt;
+    t.settle_best();
+    if (!t.best) return std::nullopt;
+    const auto& st = t.b.stretches[*t.best];
+    if (t.c.range.log_scale && st.x1 > 0.0) return std::sqrt(st.x1 * st.x2);
+    return 0.5 * (st.x1 + st.x2);
+}
+
+double PairBound::score_bound() const {
+    const State& t = *state_;
+    double best = t.b.stretches.empty() ? t.b.score : INFINITY;
+    for (std::size_t i = 0; i < t.b.stretches.size(); ++i)
+        if (const auto* st = t.known(i)) best = std::min(best, t.value(*st));
+    return best + t.d.score;
+}
+
+double PairBound::loss_bound() {
+    State& t = *state_;
+    t.settle_loss();
+    double least = t.b.stretches.empty() ? t.b.loss : INFINITY;
+    for (std::size_t i = 0; i < t.b.stretches.size(); ++i)
+        if (const auto* st = t.known(i)) least = std::min(least, t.loss(*st));
+    return least + t.d.loss + t.c.loss_floor;
+}
+
+double PairBound::loss_within(double score_cap, double enough) {
+    State& t = *state_;
+    // Round-off in the score sum must not exclude the stretch the tuned point lies in.
+    const double cap = score_cap + 1e-9 * (1.0 + std::abs(score_cap));
+    std::vector<const SettingStretch*> under;
+    double loss = INFINITY;
+    for (std::size_t i = 0; i < t.b.stretches.size(); ++i) {
+        // A stretch whose inductor bound is above the cap is above it with any diode.
+        if (!t.pair[i] && t.value(t.b.stretches[i]) + t.d.score > cap) continue;
+        const auto& st = t.at(i);
+        if (!st || t.value(*st) + t.d.score > cap) continue;
+        under.push_back(&*st);
+        loss = std::min(loss, t.loss(*st));
+    }
+    if (!std::isfinite(loss)) return loss_bound();
+    const double coarse = loss + t.d.loss + t.c.loss_floor;
+    if (!std::isfinite(enough) || coarse >= enough) return coarse;
+    return split_loss_within(t.bounder, t.c, t.d, t.k, cap, under, enough, coarse);
 }
 
 } // namespace coilsieve::studies

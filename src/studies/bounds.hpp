@@ -31,6 +31,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <memory>
 #include <optional>
 #include <utility>
 #include <vector>
@@ -190,5 +191,46 @@ std::optional<std::pair<double, double>> open_settings(const InductorBound& b);
 // The tuner starts there too, so a probe at this value bounds the tuned score from above.
 std::optional<double> pair_best_setting(const ScreenContext& c, const InductorBound& l,
                                         const DiodeBound& d, const optimisation::Scales& s);
+
+// One pair's bounds with its own diode, a stretch of the inductor's bound evaluated with the diode
+// only when an answer needs it (each costs a pass over the corners), and once: the ranking asks a
+// pair for its floors, its feasibility, where to start, its open settings and a loss under a cap,
+// and most pairs are settled by a few stretches. Every answer is a valid bound, as the functions
+// above give: a stretch not yet evaluated keeps the inductor's own bound (valid for any diode).
+// `open` and `feasible` equal those of pair_inductor_bound exactly; `best_setting` takes stretches
+// in ascending order of the inductor's bound and stops when the next cannot beat the best found,
+// so it is the pair's own choice and the same in every mode of a ranking.
+class PairBound {
+public:
+    // All references must outlive the object; `b` is the inductor's bound, `corners`
+    // part_corners(c, l.tolerance).
+    PairBound(const ScreenContext& c, const parts::Inductor& l, const parts::InductorModel& m,
+              const InductorBound& b, const parts::DiodeModel& diode, const DiodeBound& d,
+              const optimisation::Scales& s, const std::vector<EnvelopeCorner>& corners);
+    ~PairBound();
+    PairBound(const PairBound&) = delete;
+    PairBound& operator=(const PairBound&) = delete;
+
+    // pair_floors_above, on the stretches in doubt.
+    std::optional<PairFloors> floors_above(double loss_enough, double score_enough);
+    // Some setting in range may meet the limits with this pair.
+    bool feasible();
+    // The hull of the stretches that stay open with this diode (open_settings).
+    std::optional<std::pair<double, double>> open();
+    // Where the pair's score bound is least (the middle of that stretch, as pair_best_setting).
+    std::optional<double> best_setting();
+    // A lower bound over every setting of the score without the cost term (pair_score_bound),
+    // from the stretches evaluated so far.
+    double score_bound() const;
+    // pair_optimistic's loss, with the stretches that could hold the least evaluated first.
+    double loss_bound();
+    // pair_loss_within with the pair's own stretches; splits them as the refined overload does
+    // only when `enough` is finite.
+    double loss_within(double score_cap, double enough);
+
+private:
+    struct State;
+    std::unique_ptr<State> state_;
+};
 
 } // namespace coilsieve::studies

@@ -362,8 +362,8 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
     };
     // The middle of the settings a pair's bound leaves open (where a hint walks when it breaks a
     // limit); `fallback` when it leaves none.
-    auto window_middle = [&](const InductorBound& ib, double fallback) {
-        const auto open = open_settings(ib);
+    auto window_middle = [&](const std::optional<std::pair<double, double>>& open,
+                             double fallback) {
         if (!open) return fallback;
         const auto [lo, hi] = *open;
         return res.range.log_scale && lo > 0.0 ? std::sqrt(lo * hi) : 0.5 * (lo + hi);
@@ -371,8 +371,8 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
     // The range the tuner searches: only the settings the pair's bound leaves open can meet the
     // limits. Its pre-scan keeps the whole range's spacing there (at least three points). The
     // whole range when the bound leaves nothing open (an exhaustive run still tunes such a pair).
-    auto search_range = [&](const InductorBound& ib, optimisation::TuneOptions& to) {
-        const auto open = open_settings(ib);
+    auto search_range = [&](const std::optional<std::pair<double, double>>& open,
+                            optimisation::TuneOptions& to) {
         const auto& all = res.range;
         if (!open || !(all.hi > all.lo)) return all;
         optimisation::SettingRange win = all;
@@ -393,34 +393,29 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         const auto& prepared = dprep[dprep_of[pr.diode]].prepared;
         const auto scorer = optimisation::make_scorer(l, di, w, scales);
         const auto& db = dprep[job.dk].bound;
+        // The pair's bounds with its own diode, stretch by stretch as the tests below need them.
+        PairBound pb(ctx, l, *lprep[job.lk].model, lprep[job.lk].bound, *dprep[job.dk].model, db,
+                     scales, corners_of(l));
         if (!options.exhaustive) {
             // Most pairs that can only matter for the Pareto set are shown dominated with the
             // diode's bound on the few stretches the inductor's own bound leaves in doubt.
             const double enough = loss_to_dominate(pareto_point(job.optimistic, axes));
             const double top_score = threshold();
-            if (std::isfinite(enough) && job.r.bound > top_score)
-                if (const auto f = pair_floors_above(
-                        ctx, l, *lprep[job.lk].model, lprep[job.lk].bound, *dprep[job.dk].model, db,
-                        scales, corners_of(l), enough, top_score - job.cost_term))
+            if (std::isfinite(enough))
+                if (const auto f = pb.floors_above(enough, top_score - job.cost_term))
                     if (f->loss > enough && f->score + job.cost_term > top_score) {
                         job.skipped = true;
                         return;
                     }
-        }
-        // The inductor's bound with this diode's own forward drop: tighter, and it may show that
-        // no setting can meet the limits with this pair.
-        const InductorBound lb =
-            pair_inductor_bound(ctx, l, *lprep[job.lk].model, lprep[job.lk].bound,
-                                *dprep[job.dk].model, db, scales, corners_of(l));
-        if (!options.exhaustive) {
-            if (!lb.feasible) {
+            // With this diode's forward drop the bound may show that no setting can meet the
+            // limits with this pair.
+            if (!pb.feasible()) {
                 job.skipped = true;
                 return;
             }
             // Skipped when it can neither enter the top N nor the Pareto set.
-            job.optimistic.loss = std::max(job.optimistic.loss, pair_optimistic(ctx, lb, db).loss);
-            const bool can_top =
-                pair_score_bound(ctx, lb, db, scales) + job.cost_term <= threshold();
+            job.optimistic.loss = std::max(job.optimistic.loss, pb.loss_bound());
+            const bool can_top = pb.score_bound() + job.cost_term <= threshold();
             if (!can_top && dominated_by_front(pareto_point(job.optimistic, axes))) {
                 job.skipped = true;
                 return;
@@ -431,9 +426,10 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         std::vector<optimisation::TunedPoint> walked;
         try {
             const optimisation::PairEvaluator ev = evaluate(d, l, prepared);
-            if (const auto x = pair_best_setting(ctx, lb, db, scales))
-                walked =
-                    optimisation::walk_hint(res.range, base, ev, scorer, *x, window_middle(lb, *x));
+            const auto open = pb.open();
+            if (const auto x = pb.best_setting())
+                walked = optimisation::walk_hint(res.range, base, ev, scorer, *x,
+                                                 window_middle(open, *x));
             if (job.probe && !walked.empty()) {
                 job.probed = job.probed_here = true;
                 job.probe_evaluations = static_cast<int>(walked.size());
@@ -446,12 +442,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
                     // Splitting the stretches pays only where some loss would show the pair
                     // dominated.
                     const double enough = loss_to_dominate(pareto_point(o, axes));
-                    o.loss = std::max(
-                        o.loss, std::isfinite(enough)
-                                    ? pair_loss_within(ctx, l, *lprep[job.lk].model, lb,
-                                                       *dprep[job.dk].model, db, scales,
-                                                       cap - job.cost_term, corners_of(l), enough)
-                                    : pair_loss_within(ctx, lb, db, scales, cap - job.cost_term));
+                    o.loss = std::max(o.loss, pb.loss_within(cap - job.cost_term, enough));
                     if (dominated_by_front(pareto_point(o, axes))) {
                         job.skipped = true;
                         return;
@@ -465,7 +456,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
                 job.probe_evaluations = 0; // handed to the tuner, which counts them
             }
             optimisation::TuneOptions to = options.tune;
-            const optimisation::SettingRange search = search_range(lb, to);
+            const optimisation::SettingRange search = search_range(open, to);
             pr.tune = optimisation::tune(search, base, ev, scorer, to, {}, walked);
         } catch (const std::exception& e) {
             pr.tune = optimisation::TuneResult{};

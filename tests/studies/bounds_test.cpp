@@ -12,6 +12,7 @@
 //   stretches and with the stretches under the cap split;
 // - every feasible scan point and every feasible tuned optimum (which sits on its binding limit,
 //   where a bound that closes settings bites first) lies in the settings the bounds leave open.
+// - the pair bound the ranking asks stretch by stretch (PairBound) answers as the whole one does.
 // The references are the engine's own evaluations (converter::evaluate_pair); the bounds are
 // independent inequalities (volt-second balance, Erickson & Maksimović 2nd ed. ch. 2 and 5).
 #include "catalog/store.hpp"
@@ -342,6 +343,66 @@ TEST_P(Bounds, StretchBoundsHoldAtEveryFeasibleSetting) {
     EXPECT_GT(floor_points, 100u) << "too few points to check the floors";
     RecordProperty("pair_closed_points", static_cast<int>(pair_closed_points));
     RecordProperty("window_closed_points", static_cast<int>(window_closed_points));
+}
+
+// The ranking asks a pair's bound stretch by stretch (studies::PairBound) and must get the answers
+// the whole pair bound gives. That the lazy answers are exact rests on the diode's bound of a
+// stretch never being below the inductor's own (a diode's drop replaces an allowance that covers
+// every diode), which is checked here too.
+TEST_P(Bounds, PairBoundAsksOnlyWhatItNeedsAndAnswersAsTheWhole) {
+    Case s(GetParam());
+    const auto& k = starter();
+    const double wk = s.d.weights.loss / s.scales.power;
+    std::size_t pairs = 0, open_pairs = 0;
+    for (std::size_t i : sample(k.inductors, 400)) {
+        const auto& l = k.inductors[i];
+        const auto m = parts::make_model(l);
+        if (!studies::screen_inductor(s.ctx, l, m).empty()) continue;
+        const auto lb = studies::inductor_bound(s.ctx, l, m, s.scales);
+        const auto corners = studies::part_corners(s.ctx, l.tolerance);
+        for (std::size_t j : sample(k.diodes, 40)) {
+            const auto& di = k.diodes[j];
+            const auto dm = parts::make_model(di);
+            if (!studies::screen_diode(s.ctx, di, dm).empty()) continue;
+            const auto db = studies::diode_bound(s.ctx, di, dm, s.scales);
+            const auto whole = studies::pair_inductor_bound(s.ctx, l, m, lb, dm, db, s.scales);
+            const std::string at = l.id + " with " + di.id;
+            ++pairs;
+            for (const auto& q : whole.stretches) {
+                const auto own =
+                    std::find_if(lb.stretches.begin(), lb.stretches.end(),
+                                 [&](auto& o) { return o.x1 == q.x1 && o.x2 == q.x2; });
+                ASSERT_NE(own, lb.stretches.end()) << at;
+                EXPECT_GE(q.score + wk * (db.e_switch * q.f + db.qrr_per_amp * q.f_valley_v),
+                          own->score +
+                              wk * (db.e_switch * own->f + db.qrr_per_amp * own->f_valley_v))
+                    << at;
+                EXPECT_GE(q.loss, own->loss) << at;
+            }
+            studies::PairBound pb(s.ctx, l, m, lb, dm, db, s.scales, corners);
+            EXPECT_EQ(pb.feasible(), whole.feasible) << at;
+            EXPECT_EQ(pb.best_setting(), studies::pair_best_setting(s.ctx, whole, db, s.scales))
+                << at;
+            EXPECT_EQ(pb.open(), studies::open_settings(whole)) << at;
+            // A pair closed everywhere is dropped at once: its other bounds are not asked.
+            if (!whole.feasible || whole.stretches.empty()) continue;
+            ++open_pairs;
+            EXPECT_EQ(pb.score_bound(), studies::pair_score_bound(s.ctx, whole, db, s.scales))
+                << at;
+            EXPECT_EQ(pb.loss_bound(), studies::pair_optimistic(s.ctx, whole, db).loss) << at;
+            // Caps from the least score bound up: the stretches under each, as the whole has them.
+            const double least = studies::pair_score_bound(s.ctx, whole, db, s.scales);
+            for (double rise : {0.0, 0.05, 0.3, 2.0}) {
+                const double cap = least + rise * std::abs(least);
+                EXPECT_EQ(pb.loss_within(cap, INFINITY),
+                          studies::pair_loss_within(s.ctx, whole, db, s.scales, cap))
+                    << at << " under " << cap;
+            }
+        }
+    }
+    RecordProperty("open_pairs", static_cast<int>(open_pairs));
+    EXPECT_GT(open_pairs, 100u) << "too few pairs with open settings to compare (of " << pairs
+                                << ")";
 }
 
 TEST_P(Bounds, TunedOptimaLieInsideTheOpenSettings) {
