@@ -730,46 +730,6 @@ double diode_switching(const SettingStretch& s, const DiodeBound& d) {
     return d.e_switch * s.f + d.qrr_per_amp * s.f_valley_v;
 }
 
-// pair_loss_within's refinement: best first over halvings of the stretches under the cap
-// (`cap` with its round-off allowance), a node's bound taken no lower than its parent's, so the
-// first node popped at full depth holds the least over all parts, and the least node left bounds
-// them all (enough to stop once it reaches `enough`). Never below `coarse`.
-double split_loss_within(const InductorBounder& bounder, const ScreenContext& c,
-                         const DiodeBound& d, double k, double cap,
-                         const std::vector<const SettingStretch*>& under, double enough,
-                         double coarse) {
-    struct Node {
-        double loss; // lower bound of the loss over the node's settings
-        double x1, x2;
-        int depth;
-        bool operator>(const Node& o) const { return loss > o.loss; }
-    };
-    std::priority_queue<Node, std::vector<Node>, std::greater<Node>> open;
-    for (const auto* st : under) open.push({st->loss + diode_switching(*st, d), st->x1, st->x2, 0});
-    const auto& r = c.range;
-    double loss = INFINITY;
-    while (!open.empty()) {
-        const Node n = open.top();
-        open.pop();
-        if (n.depth == probe_halvings || n.loss + d.loss + c.loss_floor >= enough) {
-            loss = n.loss;
-            break;
-        }
-        const double xm = r.log_scale && n.x1 > 0.0 ? std::sqrt(n.x1 * n.x2) : 0.5 * (n.x1 + n.x2);
-        for (const auto& [a, z] : {std::pair{n.x1, xm}, std::pair{xm, n.x2}}) {
-            const auto part = bounder.stretch(a, z);
-            if (!part) continue; // no setting there meets the limits: the tuned one is elsewhere
-            const double sw = diode_switching(*part, d);
-            if (part->score + k * sw + d.score <= cap)
-                open.push({std::max(n.loss, part->loss + sw), a, z, n.depth + 1});
-        }
-    }
-    // A stretch's parts cover it, so the probe's own point lies in one that qualifies; none at all
-    // means round-off at the cap: the coarse value stands.
-    if (!std::isfinite(loss)) return coarse;
-    return std::max(coarse, loss + d.loss + c.loss_floor);
-}
-
 } // namespace
 
 double pair_score_bound(const ScreenContext& c, const InductorBound& l, const DiodeBound& d,
@@ -820,15 +780,8 @@ double pair_loss_within(const ScreenContext& c, const parts::Inductor& l,
                         const parts::DiodeModel& diode, const DiodeBound& d,
                         const optimisation::Scales& s, double score_cap,
                         const std::vector<EnvelopeCorner>& corners, double enough) {
-    const double coarse = pair_loss_within(c, b, d, s, score_cap);
-    if (coarse >= enough) return coarse;
-    const double k = c.design->weights.loss / s.power;
-    const double cap = score_cap + 1e-9 * (1.0 + std::abs(score_cap));
-    std::vector<const SettingStretch*> under;
-    for (const auto& st : b.stretches)
-        if (st.score + k * diode_switching(st, d) + d.score <= cap) under.push_back(&st);
-    const InductorBounder bounder(c, l, m, s, corners, &diode, &d);
-    return split_loss_within(bounder, c, d, k, cap, under, enough, coarse);
+    // `b` holds the pair's own stretches: bounded again with its diode they give the same.
+    return PairBound(c, l, m, b, diode, d, s, corners).loss_within(score_cap, enough, true);
 }
 
 std::optional<std::pair<double, double>> open_settings(const InductorBound& b) {
@@ -1033,24 +986,66 @@ double PairBound::loss_bound() {
     return least + t.d.loss + t.c.loss_floor;
 }
 
-double PairBound::loss_within(double score_cap, double enough) {
+double PairBound::loss_within(double score_cap, double enough, bool split) {
     State& t = *state_;
     // Round-off in the score sum must not exclude the stretch the tuned point lies in.
     const double cap = score_cap + 1e-9 * (1.0 + std::abs(score_cap));
-    std::vector<const SettingStretch*> under;
-    double loss = INFINITY;
+    // Summed in the order of pair_loss_within: the same stretch gives the same figure to the bit.
+    auto with_fixed = [&](double loss) { return loss + t.d.loss + t.c.loss_floor; };
+    // Best first by loss bound. A stretch not yet bounded with the diode enters with the
+    // inductor's bound and is bounded when it comes first; a part of a split enters with its
+    // parent's bound likewise. A node's bound is never taken below its parent's, so the first
+    // bounded node at full depth holds the least over all parts, and the least node left bounds
+    // them all (enough to stop once it reaches `enough`).
+    struct Node {
+        double loss; // lower bound of the loss over the node's settings (without the fixed terms)
+        double x1, x2;
+        int depth;
+        std::size_t stretch; // its stretch while not yet bounded at depth 0, else `none`
+        bool bounded;
+        bool operator>(const Node& o) const { return loss > o.loss; }
+    };
+    constexpr std::size_t none = static_cast<std::size_t>(-1);
+    std::priority_queue<Node, std::vector<Node>, std::greater<Node>> open;
+    auto push_bounded = [&](const SettingStretch& st, double floor, int depth) {
+        if (t.value(st) + t.d.score <= cap)
+            open.push({std::max(floor, t.loss(st)), st.x1, st.x2, depth, none, true});
+    };
     for (std::size_t i = 0; i < t.b.stretches.size(); ++i) {
-        // A stretch whose inductor bound is above the cap is above it with any diode.
-        if (!t.pair[i] && t.value(t.b.stretches[i]) + t.d.score > cap) continue;
-        const auto& st = t.at(i);
-        if (!st || t.value(*st) + t.d.score > cap) continue;
-        under.push_back(&*st);
-        loss = std::min(loss, t.loss(*st));
+        const auto& own = t.b.stretches[i];
+        if (!t.pair[i]) {
+            // A stretch whose inductor bound is above the cap is above it with any diode.
+            if (t.value(own) + t.d.score <= cap)
+                open.push({t.loss(own), own.x1, own.x2, 0, i, false});
+        } else if (*t.pair[i]) {
+            push_bounded(**t.pair[i], -INFINITY, 0);
+        }
     }
-    if (!std::isfinite(loss)) return loss_bound();
-    const double coarse = loss + t.d.loss + t.c.loss_floor;
-    if (!std::isfinite(enough) || coarse >= enough) return coarse;
-    return split_loss_within(t.bounder, t.c, t.d, t.k, cap, under, enough, coarse);
+    const int depth_max = split ? probe_halvings : 0;
+    const auto& r = t.c.range;
+    double least_root = INFINITY; // the least bounded stretch under the cap (the coarse value)
+    while (!open.empty()) {
+        const Node n = open.top();
+        open.pop();
+        if (with_fixed(n.loss) >= enough || (n.bounded && n.depth == depth_max))
+            return with_fixed(n.loss);
+        if (!n.bounded) {
+            if (n.stretch != none) {
+                if (const auto& st = t.at(n.stretch)) push_bounded(*st, -INFINITY, 0);
+            } else if (const auto part = t.bounder.stretch(n.x1, n.x2)) {
+                push_bounded(*part, n.loss, n.depth);
+            }
+            continue;
+        }
+        if (n.depth == 0) least_root = std::min(least_root, n.loss);
+        const double xm = r.log_scale && n.x1 > 0.0 ? std::sqrt(n.x1 * n.x2) : 0.5 * (n.x1 + n.x2);
+        open.push({n.loss, n.x1, xm, n.depth + 1, none, false});
+        open.push({n.loss, xm, n.x2, n.depth + 1, none, false});
+    }
+    // A stretch's parts cover it, so the probe's own point lies in one that qualifies; none at all
+    // means round-off at the cap: the stretch's own bound stands, or the pair's without a cap.
+    if (std::isfinite(least_root)) return with_fixed(least_root);
+    return loss_bound();
 }
 
 } // namespace coilsieve::studies

@@ -224,9 +224,10 @@ public:
     double score_bound() const;
     // pair_optimistic's loss, with the stretches that could hold the least evaluated first.
     double loss_bound();
-    // pair_loss_within with the pair's own stretches; splits them as the refined overload does
-    // only when `enough` is finite.
-    double loss_within(double score_cap, double enough);
+    // pair_loss_within with the pair's own stretches, split as the refined overload does when
+    // `split`; it may stop once its bound reaches `enough`. A stretch is bounded with the diode
+    // only when the search reaches it.
+    double loss_within(double score_cap, double enough, bool split);
 
 private:
     struct State;

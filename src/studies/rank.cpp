@@ -442,7 +442,8 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
                     // Splitting the stretches pays only where some loss would show the pair
                     // dominated.
                     const double enough = loss_to_dominate(pareto_point(o, axes));
-                    o.loss = std::max(o.loss, pb.loss_within(cap - job.cost_term, enough));
+                    o.loss = std::max(
+                        o.loss, pb.loss_within(cap - job.cost_term, enough, std::isfinite(enough)));
                     if (dominated_by_front(pareto_point(o, axes))) {
                         job.skipped = true;
                         return;

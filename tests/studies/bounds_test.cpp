@@ -394,7 +394,7 @@ TEST_P(Bounds, PairBoundAsksOnlyWhatItNeedsAndAnswersAsTheWhole) {
             const double least = studies::pair_score_bound(s.ctx, whole, db, s.scales);
             for (double rise : {0.0, 0.05, 0.3, 2.0}) {
                 const double cap = least + rise * std::abs(least);
-                EXPECT_EQ(pb.loss_within(cap, INFINITY),
+                EXPECT_EQ(pb.loss_within(cap, INFINITY, false),
                           studies::pair_loss_within(s.ctx, whole, db, s.scales, cap))
                     << at << " under " << cap;
             }
