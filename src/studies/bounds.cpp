@@ -986,6 +986,49 @@ double PairBound::loss_bound() {
     return least + t.d.loss + t.c.loss_floor;
 }
 
+namespace {
+
+// x rounded to a float no greater than it: a lower bound stays one.
+float float_below(double x) {
+    const auto f = static_cast<float>(x);
+    return static_cast<double>(f) > x ? std::nextafter(f, -INFINITY) : f;
+}
+
+} // namespace
+
+PairBound::Learnt PairBound::learnt() const {
+    const State& t = *state_;
+    Learnt out;
+    if (t.pair.size() > 64) return out;
+    for (std::size_t i = 0; i < t.pair.size(); ++i) {
+        if (!t.pair[i]) continue;
+        out.bounded |= std::uint64_t{1} << i;
+        if (const auto& st = *t.pair[i]) {
+            out.open |= std::uint64_t{1} << i;
+            out.figures.push_back({float_below(st->score), float_below(st->loss),
+                                   float_below(st->f), float_below(st->f_valley_v)});
+        }
+    }
+    return out;
+}
+
+void PairBound::take(const Learnt& seed) {
+    State& t = *state_;
+    if (t.pair.size() > 64) return;
+    std::size_t k = 0;
+    for (std::size_t i = 0; i < t.pair.size(); ++i) {
+        const std::uint64_t bit = std::uint64_t{1} << i;
+        if (!(seed.bounded & bit)) continue;
+        if (!(seed.open & bit)) {
+            t.pair[i] = std::optional<SettingStretch>{};
+            continue;
+        }
+        const auto& q = seed.figures.at(k++);
+        const auto& own = t.b.stretches[i];
+        t.pair[i] = SettingStretch{own.x1, own.x2, q[0], q[1], q[2], q[3]};
+    }
+}
+
 double PairBound::loss_within(double score_cap, double enough, bool split) {
     State& t = *state_;
     // Round-off in the score sum must not exclude the stretch the tuned point lies in.

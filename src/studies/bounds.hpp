@@ -30,7 +30,9 @@
 #include "studies/screen.hpp"
 
 #include <algorithm>
+#include <array>
 #include <cmath>
+#include <cstdint>
 #include <memory>
 #include <optional>
 #include <utility>
@@ -224,6 +226,16 @@ public:
     double score_bound() const;
     // pair_optimistic's loss, with the stretches that could hold the least evaluated first.
     double loss_bound();
+    // What the stretches bounded so far gave, compact (figures rounded down to float, so still
+    // bounds), for a later PairBound of the same pair: the ranking keeps it for a pair it puts
+    // back in its queue. Empty for an inductor bound of more than 64 stretches.
+    struct Learnt {
+        std::uint64_t bounded = 0, open = 0;       // bit i: stretch i bounded with the diode; open
+        std::vector<std::array<float, 4>> figures; // score, loss, f, f·i·V of the open ones
+    };
+    Learnt learnt() const;
+    void take(const Learnt& seed);
+
     // pair_loss_within with the pair's own stretches, split as the refined overload does when
     // `split`; it may stop once its bound reaches `enough`. A stretch is bounded with the diode
     // only when the search reaches it.

@@ -14,6 +14,7 @@
 #include <numeric>
 #include <queue>
 #include <thread>
+#include <unordered_map>
 
 namespace coilsieve::studies {
 
@@ -355,7 +356,13 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         bool probed = false;      // its loss bound already has the probe's tightening
         bool probed_here = false; // probed in this job
         bool skipped = false;     // the probe showed it dominated
-        bool requeue = false;     // the probe raised its loss bound: back to the queue
+        bool requeue = false;     // its bound or probe raised its loss bound: back to the queue
+        // What its bound with this diode gave (PairBound::best_setting, open and the stretches it
+        // bounded), kept when it goes back to the queue so that a later run starts from there.
+        bool bounded = false;
+        std::optional<double> start;
+        std::optional<std::pair<double, double>> window;
+        PairBound::Learnt learnt; // the stretches it bounded with the diode
         optimisation::Objectives optimistic;
         double cost_term = 0.0;
         int probe_evaluations = 0;
@@ -386,6 +393,8 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
             std::clamp(1 + static_cast<int>(std::ceil((k - 1) * share)), std::min(3, k), k);
         return win;
     };
+    // The least key left in the Pareto phase's queue while a batch runs (infinite before it).
+    double next_key = INFINITY;
     auto run_job = [&](Job& job) {
         PairResult& pr = job.r;
         const auto& l = inductors[pr.inductor];
@@ -394,42 +403,64 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         const auto scorer = optimisation::make_scorer(l, di, w, scales);
         const auto& db = dprep[job.dk].bound;
         // The pair's bounds with its own diode, stretch by stretch as the tests below need them.
-        PairBound pb(ctx, l, *lprep[job.lk].model, lprep[job.lk].bound, *dprep[job.dk].model, db,
-                     scales, corners_of(l));
-        if (!options.exhaustive) {
+        std::optional<PairBound> pb_made;
+        auto pb = [&]() -> PairBound& {
+            if (!pb_made) {
+                pb_made.emplace(ctx, l, *lprep[job.lk].model, lprep[job.lk].bound,
+                                *dprep[job.dk].model, db, scales, corners_of(l));
+                pb_made->take(job.learnt);
+            }
+            return *pb_made;
+        };
+        // A pair back from the queue passed these tests before, and its key holds the loss bound
+        // they gave.
+        if (!options.exhaustive && !job.bounded) {
             // Most pairs that can only matter for the Pareto set are shown dominated with the
             // diode's bound on the few stretches the inductor's own bound leaves in doubt.
             const double enough = loss_to_dominate(pareto_point(job.optimistic, axes));
             const double top_score = threshold();
             if (std::isfinite(enough))
-                if (const auto f = pb.floors_above(enough, top_score - job.cost_term))
+                if (const auto f = pb().floors_above(enough, top_score - job.cost_term))
                     if (f->loss > enough && f->score + job.cost_term > top_score) {
                         job.skipped = true;
                         return;
                     }
             // With this diode's forward drop the bound may show that no setting can meet the
             // limits with this pair.
-            if (!pb.feasible()) {
+            if (!pb().feasible()) {
                 job.skipped = true;
                 return;
             }
             // Skipped when it can neither enter the top N nor the Pareto set.
-            job.optimistic.loss = std::max(job.optimistic.loss, pb.loss_bound());
-            const bool can_top = pb.score_bound() + job.cost_term <= threshold();
+            const double popped_loss = job.optimistic.loss;
+            job.optimistic.loss = std::max(popped_loss, pb().loss_bound());
+            const bool can_top = pb().score_bound() + job.cost_term <= threshold();
             if (!can_top && dominated_by_front(pareto_point(job.optimistic, axes))) {
                 job.skipped = true;
                 return;
             }
+            // A Pareto-phase pair whose loss bound rose past the next pair's goes back to the queue
+            // before any evaluation: by the time it comes up again the front may dominate it.
+            if (job.probe && job.optimistic.loss > popped_loss && job.optimistic.loss > next_key)
+                job.requeue = true;
+        }
+        if (!job.bounded) {
+            job.start = pb().best_setting();
+            job.window = pb().open();
+            job.bounded = true;
+        }
+        if (job.requeue) {
+            job.learnt = pb().learnt();
+            return;
         }
         // The tuner also starts from where the bound is least, walking towards the middle of the
         // pair's open window until a point meets the limits, in every mode (same answer).
         std::vector<optimisation::TunedPoint> walked;
         try {
             const optimisation::PairEvaluator ev = evaluate(d, l, prepared);
-            const auto open = pb.open();
-            if (const auto x = pb.best_setting())
+            if (const auto x = job.start)
                 walked = optimisation::walk_hint(res.range, base, ev, scorer, *x,
-                                                 window_middle(open, *x));
+                                                 window_middle(job.window, *x));
             if (job.probe && !walked.empty()) {
                 job.probed = job.probed_here = true;
                 job.probe_evaluations = static_cast<int>(walked.size());
@@ -442,8 +473,8 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
                     // Splitting the stretches pays only where some loss would show the pair
                     // dominated.
                     const double enough = loss_to_dominate(pareto_point(o, axes));
-                    o.loss = std::max(
-                        o.loss, pb.loss_within(cap - job.cost_term, enough, std::isfinite(enough)));
+                    o.loss = std::max(o.loss, pb().loss_within(cap - job.cost_term, enough,
+                                                               std::isfinite(enough)));
                     if (dominated_by_front(pareto_point(o, axes))) {
                         job.skipped = true;
                         return;
@@ -451,13 +482,14 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
                     if (o.loss > job.optimistic.loss) {
                         job.optimistic = o;
                         job.requeue = true;
+                        job.learnt = pb().learnt();
                         return;
                     }
                 }
                 job.probe_evaluations = 0; // handed to the tuner, which counts them
             }
             optimisation::TuneOptions to = options.tune;
-            const optimisation::SettingRange search = search_range(open, to);
+            const optimisation::SettingRange search = search_range(job.window, to);
             pr.tune = optimisation::tune(search, base, ev, scorer, to, {}, walked);
         } catch (const std::exception& e) {
             pr.tune = optimisation::TuneResult{};
@@ -594,7 +626,8 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         double key = 0.0;
         bool row = false; // a row remainder: inductor `row_index`, columns from `col`
         std::size_t row_index = 0, col = 0;
-        bool probed = false; // `key` is the loss bound its probe gave
+        bool probed = false;  // `key` is the loss bound its probe gave (else its own bound's)
+        bool carried = false; // its bound's start and window are in `carried`
         bool operator>(const Entry& o) const {
             if (key != o.key) return key > o.key;
             if (row_index != o.row_index) return row_index > o.row_index;
@@ -603,6 +636,14 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         }
     };
     std::priority_queue<Entry, std::vector<Entry>, std::greater<Entry>> queue;
+    // Pairs back in the queue keep what their bound gave (a few hundred bytes each).
+    struct Carried {
+        std::optional<double> start;
+        std::optional<std::pair<double, double>> window;
+        PairBound::Learnt learnt;
+    };
+    std::unordered_map<std::size_t, Carried> carried;
+    auto pair_key = [&](std::size_t lk, std::size_t dk) { return lk * dprep.size() + dk; };
     // A pair the front already dominates is pruned here rather than when popped: the front only
     // grows stronger (what it loses, a newer member dominates), so it would be pruned then too.
     auto push_pair = [&](std::size_t row, std::size_t col) {
@@ -612,7 +653,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
             ++done;
             return;
         }
-        queue.push({o.loss, false, row, col, false});
+        queue.push({o.loss, false, row, col, false, false});
     };
     std::vector<std::size_t> row_of(lprep.size(), 0);
     for (std::size_t r = 0; r < lrows.size(); ++r) row_of[lrows[r]] = r;
@@ -637,7 +678,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
     deferred.clear();
     if (phase1_over)
         for (const auto& rest : stream.remaining())
-            queue.push({row_vector(rest.row).loss, true, rest.row, rest.col, false});
+            queue.push({row_vector(rest.row).loss, true, rest.row, rest.col, false, false});
     while (!queue.empty() || !batch.empty()) {
         while (!queue.empty() && batch.size() < options.batch) {
             const Entry e = queue.top();
@@ -653,10 +694,17 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
                 continue;
             }
             Job job = make_job(e.row_index, e.col);
-            if (e.probed) {
-                job.probed = true;
-                job.optimistic.loss = std::max(job.optimistic.loss, e.key);
-            }
+            job.probed = e.probed;
+            job.optimistic.loss = std::max(job.optimistic.loss, e.key);
+            if (e.carried)
+                if (const auto kept = carried.find(pair_key(job.lk, job.dk));
+                    kept != carried.end()) {
+                    job.bounded = true;
+                    job.start = kept->second.start;
+                    job.window = kept->second.window;
+                    job.learnt = std::move(kept->second.learnt);
+                    carried.erase(kept);
+                }
             if (dominated_by_front(pareto_point(job.optimistic, axes))) {
                 ++counts.pairs_pruned;
                 ++done;
@@ -666,9 +714,14 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
             batch.push_back(std::move(job));
         }
         if (batch.empty()) break;
+        next_key = queue.empty() ? INFINITY : queue.top().key;
         run_batch();
-        for (const auto& job : requeue)
-            queue.push({job.optimistic.loss, false, row_of[job.lk], col_of[job.dk], true});
+        for (auto& job : requeue) {
+            queue.push({job.optimistic.loss, false, row_of[job.lk], col_of[job.dk], job.probed,
+                        job.bounded});
+            if (job.bounded)
+                carried[pair_key(job.lk, job.dk)] = {job.start, job.window, std::move(job.learnt)};
+        }
         requeue.clear();
     }
 
