@@ -794,23 +794,6 @@ std::optional<std::pair<double, double>> open_settings(const InductorBound& b) {
     return std::make_pair(lo, hi);
 }
 
-std::optional<double> pair_best_setting(const ScreenContext& c, const InductorBound& l,
-                                        const DiodeBound& d, const optimisation::Scales& s) {
-    const double k = c.design->weights.loss / s.power;
-    const SettingStretch* best = nullptr;
-    double best_v = INFINITY;
-    for (const auto& st : l.stretches) {
-        const double v = st.score + k * diode_switching(st, d);
-        if (v < best_v) {
-            best_v = v;
-            best = &st;
-        }
-    }
-    if (best == nullptr) return std::nullopt;
-    if (c.range.log_scale && best->x1 > 0.0) return std::sqrt(best->x1 * best->x2);
-    return 0.5 * (best->x1 + best->x2);
-}
-
 struct PairBound::State {
     State(const ScreenContext& c_, const parts::Inductor& l, const parts::InductorModel& m,
           const InductorBound& b_, const parts::DiodeModel& diode, const DiodeBound& d_,
@@ -827,7 +810,7 @@ struct PairBound::State {
     std::vector<std::optional<std::optional<SettingStretch>>> pair;
     std::vector<std::size_t> by_bound; // stretches in ascending order of the inductor's value
     std::size_t next = 0;              // the first of by_bound not yet taken
-    std::optional<std::size_t> best;   // the best stretch taken so far
+    std::optional<std::size_t> start;  // the first of by_bound open with the diode
 
     const std::optional<SettingStretch>& at(std::size_t i) {
         auto& p = pair[i];
@@ -862,9 +845,9 @@ struct PairBound::State {
         }
     }
 
-    // Takes stretches best first until the next one's inductor value is above the best found
-    // (ties by position, as pair_best_setting): without a best, every stretch is taken.
-    void settle_best() {
+    // Takes stretches in ascending order of the inductor's value (ties by position) until one
+    // stays open with the diode: where the walk starts. Without one, every stretch is taken.
+    void settle_start() {
         if (by_bound.empty() && !b.stretches.empty()) {
             by_bound.resize(b.stretches.size());
             std::iota(by_bound.begin(), by_bound.end(), std::size_t{0});
@@ -872,15 +855,9 @@ struct PairBound::State {
                 return value(b.stretches[x]) < value(b.stretches[y]);
             });
         }
-        while (next < by_bound.size()) {
-            const std::size_t i = by_bound[next];
-            const double best_v = best ? value(**pair[*best]) : INFINITY;
-            if (value(b.stretches[i]) > best_v) break;
-            ++next;
-            const auto& st = at(i);
-            if (!st) continue;
-            const double v = value(*st);
-            if (!best || v < best_v || (v == best_v && i < *best)) best = i;
+        while (!start && next < by_bound.size()) {
+            const std::size_t i = by_bound[next++];
+            if (at(i)) start = i;
         }
     }
 };
@@ -929,8 +906,8 @@ std::optional<PairFloors> PairBound::floors_above(double loss_enough, double sco
 bool PairBound::feasible() {
     State& t = *state_;
     if (!t.b.feasible || t.b.stretches.empty()) return t.b.feasible;
-    t.settle_best();
-    return t.best.has_value();
+    t.settle_start();
+    return t.start.has_value();
 }
 
 std::optional<std::pair<double, double>> PairBound::open() {
@@ -959,12 +936,12 @@ std::optional<std::pair<double, double>> PairBound::open() {
     return std::make_pair(lo, hi);
 }
 
-std::optional<double> PairBound::best_setting() {
+std::optional<double> PairBound::start_setting() {
     State& t = *state_;
     if (!t.b.feasible || t.b.stretches.empty()) return std::nullopt;
-    t.settle_best();
-    if (!t.best) return std::nullopt;
-    const auto& st = t.b.stretches[*t.best];
+    t.settle_start();
+    if (!t.start) return std::nullopt;
+    const auto& st = t.b.stretches[*t.start];
     if (t.c.range.log_scale && st.x1 > 0.0) return std::sqrt(st.x1 * st.x2);
     return 0.5 * (st.x1 + st.x2);
 }

@@ -344,11 +344,11 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
     const converter::Setting base = converter::default_setting(d);
     std::vector<std::size_t> dprep_of(diodes.size(), 0);
     for (std::size_t k = 0; k < res.diodes_used.size(); ++k) dprep_of[res.diodes_used[k]] = k;
-    // A pair that can only matter for the Pareto set is first probed: from where its score bound
-    // is least, walked into its open window until a point meets the limits (walk_hint). The tuner
-    // is handed those same points and ends no worse, so the tuned setting lies where the score
-    // bound is below the best probe score, and the loss bound there often shows the pair
-    // dominated (bounds.hpp, pair_loss_within).
+    // A pair that can only matter for the Pareto set is first probed: from its start
+    // (PairBound::start_setting), walked into its open window until a point meets the limits
+    // (walk_hint). The tuner is handed those same points and ends no worse, so the tuned setting
+    // lies where the score bound is below the best probe score, and the loss bound there often
+    // shows the pair dominated (bounds.hpp, pair_loss_within).
     struct Job {
         PairResult r;
         std::size_t lk = 0, dk = 0;
@@ -357,7 +357,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         bool probed_here = false; // probed in this job
         bool skipped = false;     // the probe showed it dominated
         bool requeue = false;     // its bound or probe raised its loss bound: back to the queue
-        // What its bound with this diode gave (PairBound::best_setting, open and the stretches it
+        // What its bound with this diode gave (PairBound::start_setting, open and the stretches it
         // bounded), kept when it goes back to the queue so that a later run starts from there.
         bool bounded = false;
         std::optional<double> start;
@@ -445,7 +445,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
                 job.requeue = true;
         }
         if (!job.bounded) {
-            job.start = pb().best_setting();
+            job.start = pb().start_setting();
             job.window = pb().open();
             job.bounded = true;
         }
@@ -453,8 +453,8 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
             job.learnt = pb().learnt();
             return;
         }
-        // The tuner also starts from where the bound is least, walking towards the middle of the
-        // pair's open window until a point meets the limits, in every mode (same answer).
+        // The tuner also starts there, walking towards the middle of the pair's open window until a
+        // point meets the limits, in every mode (same answer).
         std::vector<optimisation::TunedPoint> walked;
         try {
             const optimisation::PairEvaluator ev = evaluate(d, l, prepared);
