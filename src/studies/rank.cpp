@@ -9,6 +9,7 @@
 #include <algorithm>
 #include <chrono>
 #include <cmath>
+#include <cstdint>
 #include <exception>
 #include <limits>
 #include <numeric>
@@ -172,6 +173,11 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
                             " diodes searched; use ID or SOURCE:ID as `coilsieve parts` lists "
                             "them)");
     }
+    // The queue's entries index the parts in 32 bits.
+    constexpr std::size_t part_limit = std::numeric_limits<std::uint32_t>::max();
+    if (res.inductors_used.size() > part_limit || res.diodes_used.size() > part_limit)
+        throw RankError("a ranking takes at most " + std::to_string(part_limit) +
+                        " inductors and as many diodes; narrow the search with --source");
     auto& counts = res.counts;
     counts.inductors = res.inductors_used.size();
     counts.diodes = res.diodes_used.size();
@@ -576,13 +582,15 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
             options.progress({done, counts.pairs_considered, last_progress});
         }
     };
-    auto make_job = [&](std::size_t row, std::size_t col) {
+    // `o`: the pair's optimistic vector when the caller has it.
+    auto make_job = [&](std::size_t row, std::size_t col,
+                        const std::optional<optimisation::Objectives>& o = std::nullopt) {
         Job job;
         job.lk = lrows[row];
         job.dk = dcols[col];
         job.r.inductor = res.inductors_used[job.lk];
         job.r.diode = res.diodes_used[job.dk];
-        job.optimistic = optimistic(job.lk, job.dk);
+        job.optimistic = o ? *o : optimistic(job.lk, job.dk);
         const auto& opt = job.optimistic;
         job.cost_term = optimisation::cost_term(opt.cost, w, sc);
         job.r.bound =
@@ -622,10 +630,12 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
     // Rows not yet expanded stand for all their remaining pairs with the row's own bound.
     // Entries hold no job: a pair's job is made when it is taken into a batch, so the queue stays
     // small on large catalogs.
+    // 24 bytes: the queue holds up to a few million on large catalogs, and its heap's cache
+    // misses are most of the phase's serial time.
     struct Entry {
         double key = 0.0;
-        bool row = false; // a row remainder: inductor `row_index`, columns from `col`
-        std::size_t row_index = 0, col = 0;
+        std::uint32_t row_index = 0, col = 0; // in the sorted lists
+        bool row = false;     // a row remainder: inductor `row_index`, columns from `col`
         bool probed = false;  // `key` is the loss bound its probe gave (else its own bound's)
         bool carried = false; // its bound's start and window are in `carried`
         bool operator>(const Entry& o) const {
@@ -636,6 +646,11 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         }
     };
     std::priority_queue<Entry, std::vector<Entry>, std::greater<Entry>> queue;
+    auto entry = [](double key, bool row, std::size_t r, std::size_t c, bool probed, bool carried) {
+        return Entry{
+            key,    static_cast<std::uint32_t>(r), static_cast<std::uint32_t>(c), row, probed,
+            carried};
+    };
     // Pairs back in the queue keep what their bound gave (a few hundred bytes each).
     struct Carried {
         std::optional<double> start;
@@ -653,7 +668,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
             ++done;
             return;
         }
-        queue.push({o.loss, false, row, col, false, false});
+        queue.push(entry(o.loss, false, row, col, false, false));
     };
     std::vector<std::size_t> row_of(lprep.size(), 0);
     for (std::size_t r = 0; r < lrows.size(); ++r) row_of[lrows[r]] = r;
@@ -678,7 +693,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
     deferred.clear();
     if (phase1_over)
         for (const auto& rest : stream.remaining())
-            queue.push({row_vector(rest.row).loss, true, rest.row, rest.col, false, false});
+            queue.push(entry(row_vector(rest.row).loss, true, rest.row, rest.col, false, false));
     while (!queue.empty() || !batch.empty()) {
         while (!queue.empty() && batch.size() < options.batch) {
             const Entry e = queue.top();
@@ -693,22 +708,25 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
                 for (std::size_t c = e.col; c < dcols.size(); ++c) push_pair(e.row_index, c);
                 continue;
             }
-            Job job = make_job(e.row_index, e.col);
-            job.probed = e.probed;
-            job.optimistic.loss = std::max(job.optimistic.loss, e.key);
-            if (e.carried)
-                if (const auto kept = carried.find(pair_key(job.lk, job.dk));
-                    kept != carried.end()) {
-                    job.bounded = true;
-                    job.start = kept->second.start;
-                    job.window = kept->second.window;
-                    job.learnt = std::move(kept->second.learnt);
-                    carried.erase(kept);
-                }
-            if (dominated_by_front(pareto_point(job.optimistic, axes))) {
+            // Most pairs are dominated when they come up: tested before a job is made.
+            const std::size_t lk = lrows[e.row_index], dk = dcols[e.col];
+            auto o = optimistic(lk, dk);
+            o.loss = std::max(o.loss, e.key);
+            const auto kept = e.carried ? carried.find(pair_key(lk, dk)) : carried.end();
+            if (dominated_by_front(pareto_point(o, axes))) {
+                if (kept != carried.end()) carried.erase(kept);
                 ++counts.pairs_pruned;
                 ++done;
                 continue;
+            }
+            Job job = make_job(e.row_index, e.col, o);
+            job.probed = e.probed;
+            if (kept != carried.end()) {
+                job.bounded = true;
+                job.start = kept->second.start;
+                job.window = kept->second.window;
+                job.learnt = std::move(kept->second.learnt);
+                carried.erase(kept);
             }
             job.probe = !job.probed && !front.empty();
             batch.push_back(std::move(job));
@@ -717,8 +735,8 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         next_key = queue.empty() ? INFINITY : queue.top().key;
         run_batch();
         for (auto& job : requeue) {
-            queue.push({job.optimistic.loss, false, row_of[job.lk], col_of[job.dk], job.probed,
-                        job.bounded});
+            queue.push(entry(job.optimistic.loss, false, row_of[job.lk], col_of[job.dk], job.probed,
+                             job.bounded));
             if (job.bounded)
                 carried[pair_key(job.lk, job.dk)] = {job.start, job.window, std::move(job.learnt)};
         }
