@@ -741,11 +741,15 @@ double pair_score_bound(const ScreenContext& c, const InductorBound& l, const Di
 }
 
 optimisation::Objectives pair_optimistic(const ScreenContext& c, const InductorBound& l,
-                                         const DiodeBound& d) {
+                                         const DiodeBound& d, std::optional<double> known_loss) {
     optimisation::Objectives o;
-    double loss = l.stretches.empty() ? l.loss : INFINITY;
-    for (const auto& st : l.stretches) loss = std::min(loss, st.loss + diode_switching(st, d));
-    o.loss = loss + d.loss + c.loss_floor;
+    if (known_loss) {
+        o.loss = *known_loss;
+    } else {
+        double loss = l.stretches.empty() ? l.loss : INFINITY;
+        for (const auto& st : l.stretches) loss = std::min(loss, st.loss + diode_switching(st, d));
+        o.loss = loss + d.loss + c.loss_floor;
+    }
     o.size = l.size + d.size;
     o.ripple = l.ripple;
     o.margin = l.margin;

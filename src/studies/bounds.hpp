@@ -148,9 +148,11 @@ DiodeBound diode_bound(const ScreenContext& c, const parts::Diode& diode,
 // two shares plus the diode's switching loss, minimised jointly over the inductor's stretches.
 double pair_score_bound(const ScreenContext& c, const InductorBound& l, const DiodeBound& d,
                         const optimisation::Scales& s);
-// A pair's optimistic objective vector (loss, size, ripple, margin; cost left empty).
+// A pair's optimistic objective vector (loss, size, ripple, margin; cost left empty); with
+// `known_loss`, a loss bound the caller already holds (no lower than this one's) is taken as is.
 optimisation::Objectives pair_optimistic(const ScreenContext& c, const InductorBound& l,
-                                         const DiodeBound& d);
+                                         const DiodeBound& d,
+                                         std::optional<double> known_loss = std::nullopt);
 
 // A pair's loss bound (as pair_optimistic's) and score bound (as pair_score_bound) with only the
 // stretches whose own values reach down to `loss_enough` or `score_enough` bounded again with the

@@ -306,8 +306,10 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         if (l.price && di.price && l.currency == di.currency) return *l.price + *di.price;
         return std::nullopt;
     };
-    auto optimistic = [&](std::size_t lk, std::size_t dk) {
-        optimisation::Objectives o = pair_optimistic(ctx, lprep[lk].bound, dprep[dk].bound);
+    auto optimistic = [&](std::size_t lk, std::size_t dk,
+                          std::optional<double> known_loss = std::nullopt) {
+        optimisation::Objectives o =
+            pair_optimistic(ctx, lprep[lk].bound, dprep[dk].bound, known_loss);
         o.cost = pair_cost(inductors[res.inductors_used[lk]], diodes[res.diodes_used[dk]]);
         return o;
     };
@@ -710,8 +712,8 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
             }
             // Most pairs are dominated when they come up: tested before a job is made.
             const std::size_t lk = lrows[e.row_index], dk = dcols[e.col];
-            auto o = optimistic(lk, dk);
-            o.loss = std::max(o.loss, e.key);
+            // Its key is its optimistic loss when pushed, or a raised bound: no lower.
+            const auto o = optimistic(lk, dk, e.key);
             const auto kept = e.carried ? carried.find(pair_key(lk, dk)) : carried.end();
             if (dominated_by_front(pareto_point(o, axes))) {
                 if (kept != carried.end()) carried.erase(kept);
