@@ -103,6 +103,35 @@ double nominal_diode_heating(const design::Design& d, const parts::Inductor& l,
 
 class Bounds : public ::testing::TestWithParam<std::string> {};
 
+// Sampled pairs whose parts pass the screens of their own, with their models and bounds.
+struct ScreenedPair {
+    const parts::Inductor& l;
+    const parts::InductorModel& m;
+    const studies::InductorBound& lb;
+    const std::vector<studies::EnvelopeCorner>& corners;
+    const parts::Diode& di;
+    const parts::DiodeModel& dm;
+    const studies::DiodeBound& db;
+};
+template <class Fn>
+void for_screened_pairs(const Case& s, std::size_t inductors, std::size_t diodes, Fn&& fn) {
+    const auto& k = starter();
+    for (std::size_t i : sample(k.inductors, inductors)) {
+        const auto& l = k.inductors[i];
+        const auto m = parts::make_model(l);
+        if (!studies::screen_inductor(s.ctx, l, m).empty()) continue;
+        const auto lb = studies::inductor_bound(s.ctx, l, m, s.scales);
+        const auto corners = studies::part_corners(s.ctx, l.tolerance);
+        for (std::size_t j : sample(k.diodes, diodes)) {
+            const auto& di = k.diodes[j];
+            const auto dm = parts::make_model(di);
+            if (!studies::screen_diode(s.ctx, di, dm).empty()) continue;
+            const auto db = studies::diode_bound(s.ctx, di, dm, s.scales);
+            fn(ScreenedPair{l, m, lb, corners, di, dm, db});
+        }
+    }
+}
+
 } // namespace
 
 TEST_P(Bounds, WindowScreenedInductorsAreInfeasibleEverywhere) {
@@ -207,138 +236,127 @@ TEST_P(Bounds, JunctionScreenedDiodesAreInfeasibleEverywhere) {
 
 TEST_P(Bounds, StretchBoundsHoldAtEveryFeasibleSetting) {
     Case s(GetParam());
-    const auto& k = starter();
     const auto& w = s.d.weights;
     std::size_t feasible_points = 0, pair_closed_points = 0, window_closed_points = 0;
     std::size_t floor_points = 0;
-    for (std::size_t i : sample(k.inductors, 150)) {
-        const auto& l = k.inductors[i];
-        const auto m = parts::make_model(l);
-        if (!studies::screen_inductor(s.ctx, l, m).empty()) continue;
-        const auto lb = studies::inductor_bound(s.ctx, l, m, s.scales);
-        const auto corners = studies::part_corners(s.ctx, l.tolerance);
-        for (std::size_t j : sample(k.diodes, 25)) {
-            const auto& di = k.diodes[j];
-            const auto dm = parts::make_model(di);
-            if (!studies::screen_diode(s.ctx, di, dm).empty()) continue;
-            const auto db = studies::diode_bound(s.ctx, di, dm, s.scales);
-            const auto scorer = optimisation::make_scorer(l, di, w, s.scales);
-            const double cost = l.price && di.price && w.cost > 0.0
-                                    ? w.cost * (*l.price + *di.price) / s.scales.cost
-                                    : 0.0;
-            const double pair_bound = studies::pair_score_bound(s.ctx, lb, db, s.scales) + cost;
-            const double loss_bound = studies::pair_optimistic(s.ctx, lb, db).loss;
-            // The same stretches bounded again with this diode's forward drop.
-            const auto pb = studies::pair_inductor_bound(s.ctx, l, m, lb, dm, db, s.scales);
-            const double pb_score = studies::pair_score_bound(s.ctx, pb, db, s.scales) + cost;
-            const double pb_loss = studies::pair_optimistic(s.ctx, pb, db).loss;
-            // Floors as the ranking takes them to discard a pair, with the stretch of least loss
-            // in doubt: bounds wherever they are given.
-            const auto floors = studies::pair_floors_above(s.ctx, l, m, lb, dm, db, s.scales,
-                                                           corners, loss_bound, -INFINITY);
-            {
-                // Nothing in doubt: the inductor's own bounds, exactly (none when it leaves no
-                // setting open).
-                const auto none = studies::pair_floors_above(s.ctx, l, m, lb, dm, db, s.scales,
-                                                             corners, -INFINITY, -INFINITY);
-                ASSERT_TRUE(none.has_value());
-                EXPECT_EQ(none->loss, lb.feasible ? loss_bound : INFINITY);
-                EXPECT_EQ(none->score + cost, lb.feasible ? pair_bound : INFINITY);
-                // Stretch by stretch, the pair's own bound where the inductor's leaves doubt and
-                // the inductor's elsewhere; no answer once a stretch in doubt stays there.
-                std::optional<studies::PairFloors> expected = studies::PairFloors{};
-                for (const auto& st :
-                     lb.feasible ? lb.stretches : std::vector<studies::SettingStretch>{}) {
-                    auto one = lb;
-                    one.stretches = {st};
-                    double loss = studies::pair_optimistic(s.ctx, one, db).loss;
-                    double score = studies::pair_score_bound(s.ctx, one, db, s.scales);
+    for_screened_pairs(s, 150, 25, [&](const ScreenedPair& sp) {
+        const auto& [l, m, lb, corners, di, dm, db] = sp;
+        const auto scorer = optimisation::make_scorer(l, di, w, s.scales);
+        const double cost = l.price && di.price && w.cost > 0.0
+                                ? w.cost * (*l.price + *di.price) / s.scales.cost
+                                : 0.0;
+        const double pair_bound = studies::pair_score_bound(s.ctx, lb, db, s.scales) + cost;
+        const double loss_bound = studies::pair_optimistic(s.ctx, lb, db).loss;
+        // The same stretches bounded again with this diode's forward drop.
+        const auto pb = studies::pair_inductor_bound(s.ctx, l, m, lb, dm, db, s.scales);
+        const double pb_score = studies::pair_score_bound(s.ctx, pb, db, s.scales) + cost;
+        const double pb_loss = studies::pair_optimistic(s.ctx, pb, db).loss;
+        // Floors as the ranking takes them to discard a pair, with the stretch of least loss
+        // in doubt: bounds wherever they are given.
+        const auto floors = studies::pair_floors_above(s.ctx, l, m, lb, dm, db, s.scales, corners,
+                                                       loss_bound, -INFINITY);
+        {
+            // Nothing in doubt: the inductor's own bounds, exactly (none when it leaves no
+            // setting open).
+            const auto none = studies::pair_floors_above(s.ctx, l, m, lb, dm, db, s.scales, corners,
+                                                         -INFINITY, -INFINITY);
+            ASSERT_TRUE(none.has_value());
+            EXPECT_EQ(none->loss, lb.feasible ? loss_bound : INFINITY);
+            EXPECT_EQ(none->score + cost, lb.feasible ? pair_bound : INFINITY);
+            // Stretch by stretch, the pair's own bound where the inductor's leaves doubt and
+            // the inductor's elsewhere; no answer once a stretch in doubt stays there.
+            std::optional<studies::PairFloors> expected = studies::PairFloors{};
+            for (const auto& st :
+                 lb.feasible ? lb.stretches : std::vector<studies::SettingStretch>{}) {
+                auto one = lb;
+                one.stretches = {st};
+                double loss = studies::pair_optimistic(s.ctx, one, db).loss;
+                double score = studies::pair_score_bound(s.ctx, one, db, s.scales);
+                if (loss <= loss_bound) {
+                    const auto same =
+                        std::find_if(pb.stretches.begin(), pb.stretches.end(),
+                                     [&](const auto& q) { return q.x1 == st.x1 && q.x2 == st.x2; });
+                    if (same == pb.stretches.end()) continue; // closed with this diode
+                    one.stretches = {*same};
+                    loss = studies::pair_optimistic(s.ctx, one, db).loss;
+                    score = studies::pair_score_bound(s.ctx, one, db, s.scales);
                     if (loss <= loss_bound) {
-                        const auto same = std::find_if(
-                            pb.stretches.begin(), pb.stretches.end(),
-                            [&](const auto& q) { return q.x1 == st.x1 && q.x2 == st.x2; });
-                        if (same == pb.stretches.end()) continue; // closed with this diode
-                        one.stretches = {*same};
-                        loss = studies::pair_optimistic(s.ctx, one, db).loss;
-                        score = studies::pair_score_bound(s.ctx, one, db, s.scales);
-                        if (loss <= loss_bound) {
-                            expected.reset();
-                            break;
-                        }
+                        expected.reset();
+                        break;
                     }
-                    expected->loss = std::min(expected->loss, loss);
-                    expected->score = std::min(expected->score, score);
                 }
-                ASSERT_EQ(floors.has_value(), expected.has_value()) << l.id << " with " << di.id;
-                if (floors) {
-                    EXPECT_EQ(floors->loss, expected->loss) << l.id << " with " << di.id;
-                    EXPECT_EQ(floors->score, expected->score) << l.id << " with " << di.id;
-                }
-                // Everything in doubt: no answer once a stretch stays open with this diode.
-                const auto all = studies::pair_floors_above(s.ctx, l, m, lb, dm, db, s.scales,
-                                                            corners, INFINITY, INFINITY);
-                EXPECT_EQ(all.has_value(), !pb.feasible) << l.id << " with " << di.id;
+                expected->loss = std::min(expected->loss, loss);
+                expected->score = std::min(expected->score, score);
             }
-            for (double x : s.scan) {
-                const auto setting = optimisation::make_setting(s.range, s.base, x);
-                const auto p = scorer(setting, converter::evaluate_pair(s.d, l, di, setting));
-                const std::string at = l.id + " with " + di.id + " at " + std::to_string(x);
-                if (lb.window) {
-                    ++window_closed_points;
-                    EXPECT_FALSE(p.evaluation.feasible) << "inductor's window closed, yet " << at;
-                    continue;
-                }
-                if (!pb.feasible) {
-                    ++pair_closed_points;
-                    EXPECT_FALSE(p.evaluation.feasible) << "pair window closed, yet " << at;
-                }
-                if (!p.evaluation.feasible) continue;
-                ++feasible_points;
-                // Inside the settings the bounds leave open (where the ranking's tuner looks).
-                for (const auto* b : {&lb, &pb}) {
-                    const auto open = studies::open_settings(*b);
-                    ASSERT_TRUE(open.has_value()) << at;
-                    EXPECT_GE(x, open->first) << at;
-                    EXPECT_LE(x, open->second) << at;
-                }
-                EXPECT_LE(pair_bound, p.score) << at;
-                EXPECT_LE(loss_bound, p.objectives.loss) << at;
-                EXPECT_LE(pb_score, p.score) << at;
-                EXPECT_LE(pb_loss, p.objectives.loss) << at;
-                EXPECT_LE(studies::pair_loss_within(s.ctx, pb, db, s.scales, p.score - cost),
-                          p.objectives.loss)
-                    << at;
-                // And with the stretches under the cap split, as a probe takes it.
-                EXPECT_LE(studies::pair_loss_within(s.ctx, l, m, pb, dm, db, s.scales,
-                                                    p.score - cost, corners),
-                          p.objectives.loss)
-                    << at;
-                if (floors) {
-                    ++floor_points;
-                    EXPECT_LE(floors->loss, p.objectives.loss) << at;
-                    EXPECT_LE(floors->score + cost, p.score) << at;
-                }
-                // The diode's own heating floor (its junction balance) holds by itself.
-                EXPECT_LE(db.loss, nominal_diode_heating(s.d, l, p.evaluation)) << at;
-                EXPECT_LE(lb.ripple, p.objectives.ripple + 1e-12) << at;
-                EXPECT_GE(lb.margin, p.objectives.margin - 1e-12) << at;
-                // Capped at this point's own score, the region still holds this point.
-                EXPECT_LE(studies::pair_loss_within(s.ctx, lb, db, s.scales, p.score - cost),
-                          p.objectives.loss)
-                    << at;
-                // The pair's bounds at this very setting (a stretch of one point): the minimum
-                // over stretches above can hide one stretch's excess, this cannot.
-                studies::InductorBound point = lb;
-                point.stretches = {{x, x, 0.0, 0.0, 0.0, 0.0}};
-                const auto px = studies::pair_inductor_bound(s.ctx, l, m, point, dm, db, s.scales);
-                ASSERT_TRUE(px.feasible) << "the bound closes a feasible setting: " << at;
-                EXPECT_LE(studies::pair_optimistic(s.ctx, px, db).loss, p.objectives.loss) << at;
-                EXPECT_LE(studies::pair_score_bound(s.ctx, px, db, s.scales) + cost, p.score) << at;
-                EXPECT_LE(px.ripple, p.objectives.ripple + 1e-12) << at;
-                EXPECT_GE(px.margin, p.objectives.margin - 1e-12) << at;
+            ASSERT_EQ(floors.has_value(), expected.has_value()) << l.id << " with " << di.id;
+            if (floors) {
+                EXPECT_EQ(floors->loss, expected->loss) << l.id << " with " << di.id;
+                EXPECT_EQ(floors->score, expected->score) << l.id << " with " << di.id;
             }
+            // Everything in doubt: no answer once a stretch stays open with this diode.
+            const auto all = studies::pair_floors_above(s.ctx, l, m, lb, dm, db, s.scales, corners,
+                                                        INFINITY, INFINITY);
+            EXPECT_EQ(all.has_value(), !pb.feasible) << l.id << " with " << di.id;
         }
-    }
+        for (double x : s.scan) {
+            const auto setting = optimisation::make_setting(s.range, s.base, x);
+            const auto p = scorer(setting, converter::evaluate_pair(s.d, l, di, setting));
+            const std::string at = l.id + " with " + di.id + " at " + std::to_string(x);
+            if (lb.window) {
+                ++window_closed_points;
+                EXPECT_FALSE(p.evaluation.feasible) << "inductor's window closed, yet " << at;
+                continue;
+            }
+            if (!pb.feasible) {
+                ++pair_closed_points;
+                EXPECT_FALSE(p.evaluation.feasible) << "pair window closed, yet " << at;
+            }
+            if (!p.evaluation.feasible) continue;
+            ++feasible_points;
+            // Inside the settings the bounds leave open (where the ranking's tuner looks).
+            for (const auto* b : {&lb, &pb}) {
+                const auto open = studies::open_settings(*b);
+                ASSERT_TRUE(open.has_value()) << at;
+                EXPECT_GE(x, open->first) << at;
+                EXPECT_LE(x, open->second) << at;
+            }
+            EXPECT_LE(pair_bound, p.score) << at;
+            EXPECT_LE(loss_bound, p.objectives.loss) << at;
+            EXPECT_LE(pb_score, p.score) << at;
+            EXPECT_LE(pb_loss, p.objectives.loss) << at;
+            EXPECT_LE(studies::pair_loss_within(s.ctx, pb, db, s.scales, p.score - cost),
+                      p.objectives.loss)
+                << at;
+            // And with the stretches under the cap split, as a probe takes it.
+            EXPECT_LE(studies::pair_loss_within(s.ctx, l, m, pb, dm, db, s.scales, p.score - cost,
+                                                corners),
+                      p.objectives.loss)
+                << at;
+            if (floors) {
+                ++floor_points;
+                EXPECT_LE(floors->loss, p.objectives.loss) << at;
+                EXPECT_LE(floors->score + cost, p.score) << at;
+            }
+            // The diode's own heating floor (its junction balance) holds by itself.
+            EXPECT_LE(db.loss, nominal_diode_heating(s.d, l, p.evaluation)) << at;
+            EXPECT_LE(lb.ripple, p.objectives.ripple + 1e-12) << at;
+            EXPECT_GE(lb.margin, p.objectives.margin - 1e-12) << at;
+            // Capped at this point's own score, the region still holds this point.
+            EXPECT_LE(studies::pair_loss_within(s.ctx, lb, db, s.scales, p.score - cost),
+                      p.objectives.loss)
+                << at;
+            // The pair's bounds at this very setting (a stretch of one point): the minimum
+            // over stretches above can hide one stretch's excess, this cannot.
+            studies::InductorBound point = lb;
+            point.stretches = {{x, x, 0.0, 0.0, 0.0, 0.0}};
+            const auto px = studies::pair_inductor_bound(s.ctx, l, m, point, dm, db, s.scales);
+            ASSERT_TRUE(px.feasible) << "the bound closes a feasible setting: " << at;
+            EXPECT_LE(studies::pair_optimistic(s.ctx, px, db).loss, p.objectives.loss) << at;
+            EXPECT_LE(studies::pair_score_bound(s.ctx, px, db, s.scales) + cost, p.score) << at;
+            EXPECT_LE(px.ripple, p.objectives.ripple + 1e-12) << at;
+            EXPECT_GE(px.margin, p.objectives.margin - 1e-12) << at;
+        }
+    });
     EXPECT_GT(feasible_points, 100u) << "too few feasible points to check the bounds";
     EXPECT_GT(floor_points, 100u) << "too few points to check the floors";
     RecordProperty("pair_closed_points", static_cast<int>(pair_closed_points));
@@ -351,85 +369,71 @@ TEST_P(Bounds, StretchBoundsHoldAtEveryFeasibleSetting) {
 // diode), which is checked here too.
 TEST_P(Bounds, PairBoundAsksOnlyWhatItNeedsAndAnswersAsTheWhole) {
     Case s(GetParam());
-    const auto& k = starter();
     const double wk = s.d.weights.loss / s.scales.power;
     std::size_t pairs = 0, open_pairs = 0;
-    for (std::size_t i : sample(k.inductors, 400)) {
-        const auto& l = k.inductors[i];
-        const auto m = parts::make_model(l);
-        if (!studies::screen_inductor(s.ctx, l, m).empty()) continue;
-        const auto lb = studies::inductor_bound(s.ctx, l, m, s.scales);
-        const auto corners = studies::part_corners(s.ctx, l.tolerance);
-        for (std::size_t j : sample(k.diodes, 40)) {
-            const auto& di = k.diodes[j];
-            const auto dm = parts::make_model(di);
-            if (!studies::screen_diode(s.ctx, di, dm).empty()) continue;
-            const auto db = studies::diode_bound(s.ctx, di, dm, s.scales);
-            const auto whole = studies::pair_inductor_bound(s.ctx, l, m, lb, dm, db, s.scales);
-            const std::string at = l.id + " with " + di.id;
-            ++pairs;
-            for (const auto& q : whole.stretches) {
-                const auto own =
-                    std::find_if(lb.stretches.begin(), lb.stretches.end(),
-                                 [&](auto& o) { return o.x1 == q.x1 && o.x2 == q.x2; });
-                ASSERT_NE(own, lb.stretches.end()) << at;
-                EXPECT_GE(q.score + wk * (db.e_switch * q.f + db.qrr_per_amp * q.f_valley_v),
-                          own->score +
-                              wk * (db.e_switch * own->f + db.qrr_per_amp * own->f_valley_v))
-                    << at;
-                EXPECT_GE(q.loss, own->loss) << at;
-            }
-            studies::PairBound pb(s.ctx, l, m, lb, dm, db, s.scales, corners);
-            EXPECT_EQ(pb.feasible(), whole.feasible) << at;
-            {
-                // The walk's start: the first stretch, in ascending order of the inductor's value
-                // with this diode's switching, that the whole bound keeps open.
-                auto value = [&](const studies::SettingStretch& q) {
-                    return q.score + wk * (db.e_switch * q.f + db.qrr_per_amp * q.f_valley_v);
-                };
-                std::vector<studies::SettingStretch> order = lb.stretches;
-                std::stable_sort(order.begin(), order.end(),
-                                 [&](const auto& x, const auto& y) { return value(x) < value(y); });
-                std::optional<double> start;
-                for (const auto& q : lb.feasible ? order : std::vector<studies::SettingStretch>{})
-                    if (std::any_of(whole.stretches.begin(), whole.stretches.end(),
-                                    [&](auto& o) { return o.x1 == q.x1 && o.x2 == q.x2; })) {
-                        start = s.range.log_scale && q.x1 > 0.0 ? std::sqrt(q.x1 * q.x2)
-                                                                : 0.5 * (q.x1 + q.x2);
-                        break;
-                    }
-                EXPECT_EQ(pb.start_setting(), start) << at;
-            }
-            EXPECT_EQ(pb.open(), studies::open_settings(whole)) << at;
-            // A pair closed everywhere is dropped at once: its other bounds are not asked.
-            if (!whole.feasible || whole.stretches.empty()) continue;
-            ++open_pairs;
-            // From the stretches asked so far: never above the whole's.
-            EXPECT_LE(pb.score_bound(), studies::pair_score_bound(s.ctx, whole, db, s.scales))
+    for_screened_pairs(s, 400, 40, [&](const ScreenedPair& sp) {
+        const auto& [l, m, lb, corners, di, dm, db] = sp;
+        const auto whole = studies::pair_inductor_bound(s.ctx, l, m, lb, dm, db, s.scales);
+        const std::string at = l.id + " with " + di.id;
+        ++pairs;
+        for (const auto& q : whole.stretches) {
+            const auto own = std::find_if(lb.stretches.begin(), lb.stretches.end(),
+                                          [&](auto& o) { return o.x1 == q.x1 && o.x2 == q.x2; });
+            ASSERT_NE(own, lb.stretches.end()) << at;
+            EXPECT_GE(q.score + wk * (db.e_switch * q.f + db.qrr_per_amp * q.f_valley_v),
+                      own->score + wk * (db.e_switch * own->f + db.qrr_per_amp * own->f_valley_v))
                 << at;
-            EXPECT_EQ(pb.loss_bound(), studies::pair_optimistic(s.ctx, whole, db).loss) << at;
-            // Caps from the least score bound up: the stretches under each, as the whole has them.
-            // A second bound seeded with what the first learnt (figures rounded down to float, as
-            // the ranking keeps them for a pair back in its queue) answers the same within the
-            // rounding, and never above.
-            studies::PairBound seeded(s.ctx, l, m, lb, dm, db, s.scales, corners);
-            seeded.take(pb.learnt());
-            const double least = studies::pair_score_bound(s.ctx, whole, db, s.scales);
-            for (double rise : {0.0, 0.05, 0.3, 2.0}) {
-                const double cap = least + rise * std::abs(least);
-                const double coarse = studies::pair_loss_within(s.ctx, whole, db, s.scales, cap);
-                EXPECT_EQ(pb.loss_within(cap, INFINITY, false), coarse) << at << " under " << cap;
-                const double again = seeded.loss_within(cap, INFINITY, false);
-                EXPECT_LE(again, coarse) << at << " under " << cap;
-                EXPECT_GE(again, coarse - 1e-6 * std::abs(coarse)) << at << " under " << cap;
-                // Split as a probe takes it: each part where its stretch is.
-                const double parts = pb.loss_within(cap, INFINITY, true);
-                const double parts_again = seeded.loss_within(cap, INFINITY, true);
-                EXPECT_LE(parts_again, parts) << at << " under " << cap;
-                EXPECT_GE(parts_again, parts - 1e-6 * std::abs(parts)) << at << " under " << cap;
-            }
+            EXPECT_GE(q.loss, own->loss) << at;
         }
-    }
+        studies::PairBound pb(s.ctx, l, m, lb, dm, db, s.scales, corners);
+        EXPECT_EQ(pb.feasible(), whole.feasible) << at;
+        {
+            // The walk's start: the first stretch, in ascending order of the inductor's value
+            // with this diode's switching, that the whole bound keeps open.
+            auto value = [&](const studies::SettingStretch& q) {
+                return q.score + wk * (db.e_switch * q.f + db.qrr_per_amp * q.f_valley_v);
+            };
+            std::vector<studies::SettingStretch> order = lb.stretches;
+            std::stable_sort(order.begin(), order.end(),
+                             [&](const auto& x, const auto& y) { return value(x) < value(y); });
+            std::optional<double> start;
+            for (const auto& q : lb.feasible ? order : std::vector<studies::SettingStretch>{})
+                if (std::any_of(whole.stretches.begin(), whole.stretches.end(),
+                                [&](auto& o) { return o.x1 == q.x1 && o.x2 == q.x2; })) {
+                    start = s.range.log_scale && q.x1 > 0.0 ? std::sqrt(q.x1 * q.x2)
+                                                            : 0.5 * (q.x1 + q.x2);
+                    break;
+                }
+            EXPECT_EQ(pb.start_setting(), start) << at;
+        }
+        EXPECT_EQ(pb.open(), studies::open_settings(whole)) << at;
+        // A pair closed everywhere is dropped at once: its other bounds are not asked.
+        if (!whole.feasible || whole.stretches.empty()) return;
+        ++open_pairs;
+        // From the stretches asked so far: never above the whole's.
+        EXPECT_LE(pb.score_bound(), studies::pair_score_bound(s.ctx, whole, db, s.scales)) << at;
+        EXPECT_EQ(pb.loss_bound(), studies::pair_optimistic(s.ctx, whole, db).loss) << at;
+        // Caps from the least score bound up: the stretches under each, as the whole has them.
+        // A second bound seeded with what the first learnt (figures rounded down to float, as
+        // the ranking keeps them for a pair back in its queue) answers the same within the
+        // rounding, and never above.
+        studies::PairBound seeded(s.ctx, l, m, lb, dm, db, s.scales, corners);
+        seeded.take(pb.learnt());
+        const double least = studies::pair_score_bound(s.ctx, whole, db, s.scales);
+        for (double rise : {0.0, 0.05, 0.3, 2.0}) {
+            const double cap = least + rise * std::abs(least);
+            const double coarse = studies::pair_loss_within(s.ctx, whole, db, s.scales, cap);
+            EXPECT_EQ(pb.loss_within(cap, INFINITY, false), coarse) << at << " under " << cap;
+            const double again = seeded.loss_within(cap, INFINITY, false);
+            EXPECT_LE(again, coarse) << at << " under " << cap;
+            EXPECT_GE(again, coarse - 1e-6 * std::abs(coarse)) << at << " under " << cap;
+            // Split as a probe takes it: each part where its stretch is.
+            const double parts = pb.loss_within(cap, INFINITY, true);
+            const double parts_again = seeded.loss_within(cap, INFINITY, true);
+            EXPECT_LE(parts_again, parts) << at << " under " << cap;
+            EXPECT_GE(parts_again, parts - 1e-6 * std::abs(parts)) << at << " under " << cap;
+        }
+    });
     RecordProperty("open_pairs", static_cast<int>(open_pairs));
     EXPECT_GT(open_pairs, 100u) << "too few pairs with open settings to compare (of " << pairs
                                 << ")";
