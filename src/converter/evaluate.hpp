@@ -58,7 +58,6 @@ CornerResult evaluate_corner(const design::Design& d, const parts::InductorModel
 
 // One limit checked at one corner. margin = (bound - value)/|bound| for upper limits, the
 // opposite for lower ones: >= 0 holds, < 0 broken. The optimiser uses margins as constraints.
-
 struct LimitCheck {
     std::string limit;  // "load_ripple", "f_sw_max", "isat", "vrrm", "tj_max", ...
     SharedName corner;  // corner name, or "" for part-only limits (height)

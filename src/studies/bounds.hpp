@@ -233,6 +233,8 @@ public:
         std::vector<std::array<float, 4>> figures; // score, loss, f, f·i·V of the open ones
     };
     Learnt learnt() const;
+    // Starts from what a PairBound of the same pair learnt (its answers then lie within the
+    // rounding below the exact ones).
     void take(const Learnt& seed);
 
     // pair_loss_within with the pair's own stretches, split as the refined overload does when
