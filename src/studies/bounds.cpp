@@ -813,6 +813,7 @@ struct PairBound::State {
     // Outer: evaluated with the diode; inner: open with it.
     std::vector<std::optional<std::optional<SettingStretch>>> pair;
     std::vector<std::size_t> by_bound; // stretches in ascending order of the inductor's value
+    std::vector<std::size_t> by_loss;  // and of its loss (both made when first needed)
     std::size_t next = 0;              // the first of by_bound not yet taken
     std::optional<std::size_t> start;  // the first of by_bound open with the diode
 
@@ -834,19 +835,25 @@ struct PairBound::State {
     // Takes stretches in ascending order of the inductor's loss until the next one's is no lower
     // than the least found with the diode, so that the least over `known` is the pair's own.
     void settle_loss() {
-        std::vector<std::size_t> order(b.stretches.size());
-        std::iota(order.begin(), order.end(), std::size_t{0});
-        std::stable_sort(order.begin(), order.end(), [&](std::size_t x, std::size_t y) {
-            return loss(b.stretches[x]) < loss(b.stretches[y]);
-        });
         double least = INFINITY;
-        for (std::size_t i : order) {
-            if (pair[i] && *pair[i]) least = std::min(least, loss(**pair[i]));
-        }
-        for (std::size_t i : order) {
+        for (const auto& p : pair)
+            if (p && *p) least = std::min(least, loss(**p));
+        for (std::size_t i : loss_order()) {
             if (loss(b.stretches[i]) >= least) break;
             if (const auto& st = at(i)) least = std::min(least, loss(*st));
         }
+    }
+
+    // The stretches in ascending order of the inductor's loss (ties by position).
+    const std::vector<std::size_t>& loss_order() {
+        if (by_loss.size() != b.stretches.size()) {
+            by_loss.resize(b.stretches.size());
+            std::iota(by_loss.begin(), by_loss.end(), std::size_t{0});
+            std::stable_sort(by_loss.begin(), by_loss.end(), [&](std::size_t x, std::size_t y) {
+                return loss(b.stretches[x]) < loss(b.stretches[y]);
+            });
+        }
+        return by_loss;
     }
 
     // Takes stretches in ascending order of the inductor's value (ties by position) until one
@@ -883,7 +890,7 @@ std::optional<PairFloors> PairBound::floors_above(double loss_enough, double sco
     auto loss_of = [&](const SettingStretch& st) { return t.loss(st) + t.d.loss + t.c.loss_floor; };
     // The stretches in doubt, least loss first: the one most likely to stay below comes first.
     std::vector<std::size_t> doubt;
-    for (std::size_t i = 0; i < t.b.stretches.size(); ++i) {
+    for (std::size_t i : t.loss_order()) {
         const auto& st = t.b.stretches[i];
         const double loss = loss_of(st), score = t.value(st) + t.d.score;
         if (loss <= loss_enough || score <= score_enough) {
@@ -893,9 +900,6 @@ std::optional<PairFloors> PairBound::floors_above(double loss_enough, double sco
         out.loss = std::min(out.loss, loss);
         out.score = std::min(out.score, score);
     }
-    std::stable_sort(doubt.begin(), doubt.end(), [&](std::size_t x, std::size_t y) {
-        return t.loss(t.b.stretches[x]) < t.loss(t.b.stretches[y]);
-    });
     for (std::size_t i : doubt) {
         const auto& part = t.at(i);
         if (!part) continue; // no setting there meets the limits with this diode

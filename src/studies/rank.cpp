@@ -357,6 +357,13 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
     // (walk_hint). The tuner is handed those same points and ends no worse, so the tuned setting
     // lies where the score bound is below the best probe score, and the loss bound there often
     // shows the pair dominated (bounds.hpp, pair_loss_within).
+    // What a pair's bound with its diode gave, kept while the pair waits in the queue again so
+    // that its next run starts from there (a few hundred bytes).
+    struct BoundKept {
+        std::optional<double> start;                     // PairBound::start_setting
+        std::optional<std::pair<double, double>> window; // PairBound::open
+        PairBound::Learnt learnt;                        // the stretches it bounded
+    };
     struct Job {
         PairResult r;
         std::size_t lk = 0, dk = 0;
@@ -365,12 +372,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         bool probed_here = false; // probed in this job
         bool skipped = false;     // the probe showed it dominated
         bool requeue = false;     // its bound or probe raised its loss bound: back to the queue
-        // What its bound with this diode gave (PairBound::start_setting, open and the stretches it
-        // bounded), kept when it goes back to the queue so that a later run starts from there.
-        bool bounded = false;
-        std::optional<double> start;
-        std::optional<std::pair<double, double>> window;
-        PairBound::Learnt learnt; // the stretches it bounded with the diode
+        std::optional<BoundKept> kept; // set once its bound with the diode has been asked
         optimisation::Objectives optimistic;
         double cost_term = 0.0;
         int probe_evaluations = 0;
@@ -416,13 +418,13 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
             if (!pb_made) {
                 pb_made.emplace(ctx, l, *lprep[job.lk].model, lprep[job.lk].bound,
                                 *dprep[job.dk].model, db, scales, corners_of(l));
-                pb_made->take(job.learnt);
+                if (job.kept) pb_made->take(job.kept->learnt);
             }
             return *pb_made;
         };
         // A pair back from the queue passed these tests before, and its key holds the loss bound
         // they gave.
-        if (!options.exhaustive && !job.bounded) {
+        if (!options.exhaustive && !job.kept) {
             // Most pairs that can only matter for the Pareto set are shown dominated with the
             // diode's bound on the few stretches the inductor's own bound leaves in doubt.
             const double enough = loss_to_dominate(pareto_point(job.optimistic, axes));
@@ -452,13 +454,9 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
             if (job.probe && job.optimistic.loss > popped_loss && job.optimistic.loss > next_key)
                 job.requeue = true;
         }
-        if (!job.bounded) {
-            job.start = pb().start_setting();
-            job.window = pb().open();
-            job.bounded = true;
-        }
+        if (!job.kept) job.kept = BoundKept{pb().start_setting(), pb().open(), {}};
         if (job.requeue) {
-            job.learnt = pb().learnt();
+            job.kept->learnt = pb().learnt();
             return;
         }
         // The tuner also starts there, walking towards the middle of the pair's open window until a
@@ -466,9 +464,9 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         std::vector<optimisation::TunedPoint> walked;
         try {
             const optimisation::PairEvaluator ev = evaluate(d, l, prepared);
-            if (const auto x = job.start)
+            if (const auto x = job.kept->start)
                 walked = optimisation::walk_hint(res.range, base, ev, scorer, *x,
-                                                 window_middle(job.window, *x));
+                                                 window_middle(job.kept->window, *x));
             if (job.probe && !walked.empty()) {
                 job.probed = job.probed_here = true;
                 job.probe_evaluations = static_cast<int>(walked.size());
@@ -490,14 +488,14 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
                     if (o.loss > job.optimistic.loss) {
                         job.optimistic = o;
                         job.requeue = true;
-                        job.learnt = pb().learnt();
+                        job.kept->learnt = pb().learnt();
                         return;
                     }
                 }
                 job.probe_evaluations = 0; // handed to the tuner, which counts them
             }
             optimisation::TuneOptions to = options.tune;
-            const optimisation::SettingRange search = search_range(job.window, to);
+            const optimisation::SettingRange search = search_range(job.kept->window, to);
             pr.tune = optimisation::tune(search, base, ev, scorer, to, {}, walked);
         } catch (const std::exception& e) {
             pr.tune = optimisation::TuneResult{};
@@ -639,7 +637,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         std::uint32_t row_index = 0, col = 0; // in the sorted lists
         bool row = false;     // a row remainder: inductor `row_index`, columns from `col`
         bool probed = false;  // `key` is the loss bound its probe gave (else its own bound's)
-        bool carried = false; // its bound's start and window are in `carried`
+        bool carried = false; // what its bound gave is in `carried`
         bool operator>(const Entry& o) const {
             if (key != o.key) return key > o.key;
             if (row_index != o.row_index) return row_index > o.row_index;
@@ -653,13 +651,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
             key,    static_cast<std::uint32_t>(r), static_cast<std::uint32_t>(c), row, probed,
             carried};
     };
-    // Pairs back in the queue keep what their bound gave (a few hundred bytes each).
-    struct Carried {
-        std::optional<double> start;
-        std::optional<std::pair<double, double>> window;
-        PairBound::Learnt learnt;
-    };
-    std::unordered_map<std::size_t, Carried> carried;
+    std::unordered_map<std::size_t, BoundKept> carried;
     auto pair_key = [&](std::size_t lk, std::size_t dk) { return lk * dprep.size() + dk; };
     // A pair the front already dominates is pruned here rather than when popped: the front only
     // grows stronger (what it loses, a newer member dominates), so it would be pruned then too.
@@ -724,10 +716,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
             Job job = make_job(e.row_index, e.col, o);
             job.probed = e.probed;
             if (kept != carried.end()) {
-                job.bounded = true;
-                job.start = kept->second.start;
-                job.window = kept->second.window;
-                job.learnt = std::move(kept->second.learnt);
+                job.kept = std::move(kept->second);
                 carried.erase(kept);
             }
             job.probe = !job.probed && !front.empty();
@@ -738,9 +727,8 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         run_batch();
         for (auto& job : requeue) {
             queue.push(entry(job.optimistic.loss, false, row_of[job.lk], col_of[job.dk], job.probed,
-                             job.bounded));
-            if (job.bounded)
-                carried[pair_key(job.lk, job.dk)] = {job.start, job.window, std::move(job.learnt)};
+                             job.kept.has_value()));
+            if (job.kept) carried[pair_key(job.lk, job.dk)] = std::move(*job.kept);
         }
         requeue.clear();
     }
