@@ -11,6 +11,7 @@
 #include <cmath>
 #include <cstdint>
 #include <exception>
+#include <functional>
 #include <limits>
 #include <numeric>
 #include <queue>
@@ -514,6 +515,8 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
     // Pareto-only pairs whose probe raised their loss bound go back to the queue (phase 2).
     std::vector<Job> requeue;
     std::vector<std::size_t> order; // the batch's jobs in the order they start
+    // Work for the calling thread while the batch runs (nothing in phase 1).
+    std::function<void()> meanwhile = [] {};
     auto run_batch = [&] {
         // The front and the threshold are only read while the batch runs; they change in the
         // merge below, in batch order, so the outcome does not depend on the number of threads.
@@ -523,7 +526,8 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         std::iota(order.begin(), order.end(), std::size_t{0});
         std::stable_partition(order.begin(), order.end(),
                               [&](std::size_t k) { return !batch[k].probe; });
-        workers.run(order.size(), [&](std::size_t k) { run_job(batch[order[k]]); });
+        const auto job_at = [&](std::size_t k) { run_job(batch[order[k]]); };
+        workers.run(order.size(), job_at, meanwhile);
         for (auto& job : batch) {
             counts.evaluations += static_cast<std::size_t>(job.probe_evaluations);
             if (job.probed_here) ++counts.pairs_probed;
@@ -688,10 +692,54 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
     if (phase1_over)
         for (const auto& rest : stream.remaining())
             queue.push(entry(row_vector(rest.row).loss, true, rest.row, rest.col, false, false));
-    while (!queue.empty() || !batch.empty()) {
-        while (!queue.empty() && batch.size() < options.batch) {
-            const Entry e = queue.top();
-            queue.pop();
+    // While a batch runs, the calling thread takes the next entries out of the queue and prunes
+    // those its front already dominates (the front only grows stronger, so the next batch would
+    // prune them too); the others wait in `ahead`. The next batch takes from `ahead` and the
+    // queue in the same order as from one queue, so it is made of the same pairs and every count
+    // comes out the same: the queue's cache misses, most of this phase's serial time, move into
+    // the batch's time. A row waits in the queue: whether it is pruned as a whole depends on the
+    // front the next batch sees.
+    struct Ahead {
+        Entry e;
+        bool pruned = false; // counted already; kept for its place in the order (next_key)
+        bool operator>(const Ahead& o) const { return e > o.e; }
+    };
+    std::priority_queue<Ahead, std::vector<Ahead>, std::greater<Ahead>> ahead;
+    std::size_t ahead_live = 0; // not pruned
+    auto ahead_first = [&] {
+        return !ahead.empty() && (queue.empty() || queue.top() > ahead.top().e);
+    };
+    auto prune_popped = [&](std::size_t lk, std::size_t dk, bool was_carried) {
+        if (was_carried) carried.erase(pair_key(lk, dk));
+        ++counts.pairs_pruned;
+        ++done;
+    };
+    if (options.look_ahead)
+        meanwhile = [&] {
+            while (ahead_live < options.batch && !queue.empty() && !queue.top().row) {
+                const Entry e = queue.top();
+                queue.pop();
+                const std::size_t lk = lrows[e.row_index], dk = dcols[e.col];
+                const bool pruned =
+                    dominated_by_front(pareto_point(optimistic(lk, dk, e.key), axes));
+                if (pruned) prune_popped(lk, dk, e.carried);
+                else ++ahead_live;
+                ahead.push({e, pruned});
+            }
+        };
+    while (!queue.empty() || !ahead.empty() || !batch.empty()) {
+        while ((!queue.empty() || !ahead.empty()) && batch.size() < options.batch) {
+            Entry e;
+            if (ahead_first()) {
+                const Ahead first = ahead.top();
+                ahead.pop();
+                if (first.pruned) continue;
+                --ahead_live;
+                e = first.e;
+            } else {
+                e = queue.top();
+                queue.pop();
+            }
             if (e.row) {
                 if (dominated_by_front(pareto_point(row_vector(e.row_index), axes))) {
                     const std::size_t n = dcols.size() - e.col;
@@ -708,9 +756,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
             const auto o = optimistic(lk, dk, e.key);
             const auto kept = e.carried ? carried.find(pair_key(lk, dk)) : carried.end();
             if (dominated_by_front(pareto_point(o, axes))) {
-                if (kept != carried.end()) carried.erase(kept);
-                ++counts.pairs_pruned;
-                ++done;
+                prune_popped(lk, dk, kept != carried.end());
                 continue;
             }
             Job job = make_job(e.row_index, e.col, o);
@@ -723,7 +769,8 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
             batch.push_back(std::move(job));
         }
         if (batch.empty()) break;
-        next_key = queue.empty() ? INFINITY : queue.top().key;
+        next_key = std::min(queue.empty() ? INFINITY : queue.top().key,
+                            ahead.empty() ? INFINITY : ahead.top().e.key);
         run_batch();
         for (auto& job : requeue) {
             queue.push(entry(job.optimistic.loss, false, row_of[job.lk], col_of[job.dk], job.probed,

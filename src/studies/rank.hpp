@@ -60,6 +60,9 @@ struct RankOptions {
     optimisation::TuneOptions tune;
     std::size_t batch = 64; // pairs per parallel batch (fixed: determinism)
     bool keep_all = false;  // keep every tuned pair in RankResult::all
+    // The calling thread takes the next batch's pairs out of the queue while a batch runs; off,
+    // it takes them between batches. The same pairs are tuned either way, with the same counts.
+    bool look_ahead = true;
     std::function<void(const Progress&)> progress;
 };
 

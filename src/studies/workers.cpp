@@ -17,7 +17,13 @@ Workers::~Workers() {
 }
 
 void Workers::run(std::size_t n, const std::function<void(std::size_t)>& fn) {
-    if (pool_.empty() || n < 2) {
+    run(n, fn, [] {});
+}
+
+void Workers::run(std::size_t n, const std::function<void(std::size_t)>& fn,
+                  const std::function<void()>& first) {
+    if (pool_.empty() || n < 1) {
+        first();
         for (std::size_t i = 0; i < n; ++i) fn(i);
         return;
     }
@@ -31,6 +37,13 @@ void Workers::run(std::size_t n, const std::function<void(std::size_t)>& fn) {
         ++round_;
     }
     wake_.notify_all();
+    try {
+        first();
+    } catch (...) {
+        std::lock_guard lock(m_);
+        if (!error_) error_ = std::current_exception();
+        next_ = n_;
+    }
     work();
     std::unique_lock lock(m_);
     done_.wait(lock, [&] { return busy_ == 0; });

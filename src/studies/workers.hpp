@@ -25,6 +25,10 @@ public:
     // fn(i) for every i in [0, n), in any order and on any of the threads; returns when all are
     // done. The first exception is rethrown then (the rest of the loop is skipped).
     void run(std::size_t n, const std::function<void(std::size_t)>& fn);
+    // The same, with the calling thread running `first()` before it joins the loop (before the
+    // loop with one thread): work of its own that the loop must not depend on.
+    void run(std::size_t n, const std::function<void(std::size_t)>& fn,
+             const std::function<void()>& first);
 
 private:
     void work();

@@ -118,6 +118,26 @@ TEST_P(StarterCatalog, OneAndTwoThreadsAgree) {
     EXPECT_EQ(r1.counts.pairs_tuned, r2.counts.pairs_tuned); // fixed batches: same pairs tuned
 }
 
+// Taking the next batch's pairs out of the queue while a batch runs must change nothing but the
+// time: the same pairs probed and tuned, in the same batches, so every count is the same.
+TEST_P(StarterCatalog, LookingAheadChangesOnlyTheTime) {
+    const auto d = example(GetParam());
+    const auto& s = starter();
+    studies::RankOptions ahead, plain;
+    plain.look_ahead = false;
+    const auto ra =
+        studies::rank_pairs(d, s.inductors, s.diodes, ahead, studies::default_evaluator());
+    const auto rp =
+        studies::rank_pairs(d, s.inductors, s.diodes, plain, studies::default_evaluator());
+    EXPECT_EQ(listed(ra.top), listed(rp.top));
+    EXPECT_EQ(listed(ra.pareto), listed(rp.pareto));
+    EXPECT_EQ(ra.counts.pairs_tuned, rp.counts.pairs_tuned);
+    EXPECT_EQ(ra.counts.pairs_probed, rp.counts.pairs_probed);
+    EXPECT_EQ(ra.counts.pairs_pruned, rp.counts.pairs_pruned);
+    EXPECT_EQ(ra.counts.evaluations, rp.counts.evaluations);
+    EXPECT_GT(rp.counts.pairs_probed, 0u); // the Pareto phase, where it looks ahead, ran
+}
+
 // More Pareto objectives weaken the pruning (ripple and margin bounds are per inductor) but must
 // not change the answer: the pruned set equals the non-dominated set of every pair tuned
 // exhaustively.
