@@ -103,39 +103,39 @@ TEST_P(StarterCatalog, PrunedEqualsExhaustiveAndBoundsHold) {
     EXPECT_EQ(listed(rd.top), listed(expected));
 }
 
-TEST_P(StarterCatalog, OneAndTwoThreadsAgree) {
-    const auto d = example(GetParam());
+namespace {
+
+// Two rankings that may differ only in their time: the same lists, and the same pairs probed,
+// tuned and pruned with the same evaluations (batches are fixed, so the work is too).
+void expect_same_work(const design::Design& d, const studies::RankOptions& a,
+                      const studies::RankOptions& b) {
     const auto& s = starter();
+    const auto ra = studies::rank_pairs(d, s.inductors, s.diodes, a, studies::default_evaluator());
+    const auto rb = studies::rank_pairs(d, s.inductors, s.diodes, b, studies::default_evaluator());
+    EXPECT_EQ(listed(ra.top), listed(rb.top));
+    EXPECT_EQ(listed(ra.pareto), listed(rb.pareto));
+    EXPECT_EQ(ra.counts.pairs_tuned, rb.counts.pairs_tuned);
+    EXPECT_EQ(ra.counts.pairs_probed, rb.counts.pairs_probed);
+    EXPECT_EQ(ra.counts.pairs_pruned, rb.counts.pairs_pruned);
+    EXPECT_EQ(ra.counts.evaluations, rb.counts.evaluations);
+    EXPECT_GT(ra.counts.pairs_probed, 0u); // the Pareto phase ran
+}
+
+} // namespace
+
+TEST_P(StarterCatalog, OneAndTwoThreadsAgree) {
     studies::RankOptions one, two;
     one.threads = 1;
     two.threads = 2;
-    const auto r1 =
-        studies::rank_pairs(d, s.inductors, s.diodes, one, studies::default_evaluator());
-    const auto r2 =
-        studies::rank_pairs(d, s.inductors, s.diodes, two, studies::default_evaluator());
-    EXPECT_EQ(listed(r1.top), listed(r2.top));
-    EXPECT_EQ(listed(r1.pareto), listed(r2.pareto));
-    EXPECT_EQ(r1.counts.pairs_tuned, r2.counts.pairs_tuned); // fixed batches: same pairs tuned
+    expect_same_work(example(GetParam()), one, two);
 }
 
 // Taking the next batch's pairs out of the queue while a batch runs must change nothing but the
-// time: the same pairs probed and tuned, in the same batches, so every count is the same.
+// time.
 TEST_P(StarterCatalog, LookingAheadChangesOnlyTheTime) {
-    const auto d = example(GetParam());
-    const auto& s = starter();
     studies::RankOptions ahead, plain;
     plain.look_ahead = false;
-    const auto ra =
-        studies::rank_pairs(d, s.inductors, s.diodes, ahead, studies::default_evaluator());
-    const auto rp =
-        studies::rank_pairs(d, s.inductors, s.diodes, plain, studies::default_evaluator());
-    EXPECT_EQ(listed(ra.top), listed(rp.top));
-    EXPECT_EQ(listed(ra.pareto), listed(rp.pareto));
-    EXPECT_EQ(ra.counts.pairs_tuned, rp.counts.pairs_tuned);
-    EXPECT_EQ(ra.counts.pairs_probed, rp.counts.pairs_probed);
-    EXPECT_EQ(ra.counts.pairs_pruned, rp.counts.pairs_pruned);
-    EXPECT_EQ(ra.counts.evaluations, rp.counts.evaluations);
-    EXPECT_GT(rp.counts.pairs_probed, 0u); // the Pareto phase, where it looks ahead, ran
+    expect_same_work(example(GetParam()), ahead, plain);
 }
 
 // More Pareto objectives weaken the pruning (ripple and margin bounds are per inductor) but must
