@@ -459,11 +459,20 @@ public:
             }
             if (t_l > t_l_bound_) close("t_inductor");
             // With CCM certain the diode conducts for at least the volt-second share of the
-            // period; beyond the largest share its junction can balance at, it cannot.
+            // period; beyond the largest share its junction can balance at, it cannot. The
+            // balance heats that share at the corner's least current; the off-ramp's mean
+            // current, where it is higher, heats it more (V_f·i is convex in i, so the mean of
+            // V_f·i is at least V_f(ī)·ī, and V_f rises with i): the share scaled by their ratio.
             if (diode_bound_ != nullptr && valley_lb > 0.0 && von_lb > 0.0) {
                 const double off = von_lb / (von_lb + voff_ub);
+                double heating_share = off;
+                if (ramps_known) {
+                    const double h = ramp_mean_share(r_off);
+                    heating_share *=
+                        std::max(1.0, ((1.0 - h) * valley_lb + h * peak_lb) / k.current_lb());
+                }
                 for (const auto& st : diode_bound_->settling)
-                    if (st.point == operating_point(k) && off > st.share) close("tj_max");
+                    if (st.point == operating_point(k) && heating_share > st.share) close("tj_max");
                 // Its average current is that share times the off-ramp's mean, at least
                 // valley + h·ΔI (ramp_mean_share).
                 if (ramps_known) {

@@ -864,6 +864,57 @@ TEST(BoundsJunction, DiodeChargeShareCoversFeasiblePairs) {
     }
 }
 
+// The pair bound closes a CCM stretch for the junction when the diode's share of the period,
+// scaled by its off-ramp's mean current over the corner's least current, passes the largest share
+// the junction can balance at (JunctionBalance). It rests on the conduction loss being at least
+// share·ī·V_f(ī) (V_f·i is convex in i: Jensen's inequality) and V_f rising with the current. Here
+// with the engine's own figures: at every CCM corner of a feasible pair, the junction balances
+// with its off share and the mean current the diode carries in it; and the pair's bound at that
+// very setting (a stretch of one point) stays open. Random starter pairs passing screening, on
+// each example at supplies from 0.75 to 2.25 times its nominal one.
+TEST(BoundsJunction, BalanceAdmitsTheDiodesOwnShareAndMeanCurrent) {
+    for (const char* file :
+         {"two-cell-charger.json", "reading-lamp.json", "workshop-floodlight.json"}) {
+        const Case s(file);
+        double closest = 0.0; // the largest scaled share over the largest settling share
+        std::size_t checked = 0;
+        for_random_pairs(s, file, 7, 8000, [&](const Draw& p) {
+            const auto e = converter::evaluate_pair(p.d, p.l, p.di, p.setting);
+            if (!e.feasible) return;
+            const auto dm = parts::make_model(p.di);
+            auto ctx = p.ctx;
+            studies::set_winding_resistance(ctx, studies::winding_resistance_max(p.d, p.lm));
+            const auto scales = optimisation::make_scales(p.d);
+            auto point = studies::inductor_bound(ctx, p.l, p.lm, scales);
+            point.stretches = {{p.x, p.x, 0.0, 0.0, 0.0, 0.0}};
+            const auto db = studies::diode_bound(ctx, p.di, dm, scales);
+            EXPECT_TRUE(
+                studies::pair_inductor_bound(ctx, p.l, p.lm, point, dm, db, scales).feasible)
+                << "the bound closes a feasible setting: " << file << ": " << p.l.id << " with "
+                << p.di.id << ", " << p.vs << " V, " << p.x;
+            const auto& lim = p.d.limits;
+            const double tj_bound = lim.tj_max ? std::min(dm.tj_max, *lim.tj_max) : dm.tj_max;
+            const auto corners = studies::part_corners(p.ctx, p.l.tolerance);
+            ASSERT_EQ(corners.size(), e.corners.size());
+            for (std::size_t c = 0; c < e.corners.size(); ++c) {
+                const auto& r = e.corners[c];
+                const auto& k = corners[c];
+                if (!(r.il_valley > 0.0) || !(r.duty < 1.0) || !(k.current > 0.0)) continue;
+                const double off = 1.0 - r.duty;
+                const double share = off * std::max(1.0, r.id_avg / off / k.current_lb());
+                const studies::JunctionBalance balance(k, dm, tj_bound);
+                ++checked;
+                closest = std::max(closest, share / balance.largest_settling_share());
+                EXPECT_TRUE(balance.can_balance(share))
+                    << file << ": " << p.l.id << " with " << p.di.id << " at " << r.name << ", "
+                    << p.vs << " V: share " << share;
+            }
+        });
+        EXPECT_GT(checked, 100u) << file;
+        RecordProperty(std::string("closest_") + file, std::to_string(closest));
+    }
+}
+
 // The screens and floors take a feasible pair's average current to lie within
 // [current_lb(), current_ub()] at every corner (EnvelopeCorner): under hysteretic control that is
 // the limit current_error, which the engine checks at every corner. It used to be an allowance of
