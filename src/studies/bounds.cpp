@@ -465,14 +465,23 @@ public:
             // V_f·i is at least V_f(ī)·ī, and V_f rises with i): the share scaled by their ratio.
             if (diode_bound_ != nullptr && valley_lb > 0.0 && von_lb > 0.0) {
                 const double off = von_lb / (von_lb + voff_ub);
-                double heating_share = off;
+                double heating_share = off, leak_scale = 1.0;
                 if (ramps_known) {
                     const double h = ramp_mean_share(r_off);
                     heating_share *=
                         std::max(1.0, ((1.0 - h) * valley_lb + h * peak_lb) / k.current_lb());
+                    // Its leakage heats over the switch's on share, at least the volt-second
+                    // duty, where the balance took the corner's ideal duty.
+                    const double ideal = (k.v0 + k.r * k.current) / k.vin;
+                    if (ideal > 0.0) leak_scale = voff_least / (voff_least + von_most) / ideal;
                 }
-                for (const auto& st : diode_bound_->settling)
-                    if (st.point == operating_point(k) && heating_share > st.share) close("tj_max");
+                for (const auto& st : diode_bound_->settling) {
+                    if (st.point != operating_point(k)) continue;
+                    double share = st.share; // more leakage balances at no larger a share
+                    for (std::size_t i = 0; i < DiodeBound::leak_levels.size(); ++i)
+                        if (DiodeBound::leak_levels[i] <= leak_scale) share = st.share_with_leak[i];
+                    if (heating_share > share) close("tj_max");
+                }
                 // Its average current is that share times the off-ramp's mean, at least
                 // valley + h·ΔI (ramp_mean_share).
                 if (ramps_known) {
@@ -707,7 +716,11 @@ DiodeBound diode_bound(const ScreenContext& c, const parts::Diode& diode,
         std::optional<JunctionBalance> balance;
         if (driven) {
             balance.emplace(k, m, tj_bound);
-            b.settling.push_back({operating_point(k), balance->largest_settling_share()});
+            DiodeBound::Settling st{operating_point(k), balance->largest_settling_share(), {}};
+            for (std::size_t i = 0; i < DiodeBound::leak_levels.size(); ++i)
+                st.share_with_leak[i] =
+                    std::min(st.share, balance->largest_settling_share(DiodeBound::leak_levels[i]));
+            b.settling.push_back(st);
         }
         if (!k.nominal) continue;
         const double w = std::max(0.0, k.weight);

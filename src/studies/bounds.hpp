@@ -116,7 +116,10 @@ struct DiodeBound {
     struct Settling {
         OperatingPoint point;
         double share = 1.0;
+        // The same with the leakage leak_levels[i] times the corner's (a duty above its ideal).
+        std::array<double, 6> share_with_leak{};
     };
+    static constexpr std::array<double, 6> leak_levels{1.02, 1.05, 1.1, 1.2, 1.4, 1.7};
     std::vector<Settling> settling;
 };
 

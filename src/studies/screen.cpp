@@ -131,10 +131,11 @@ OperatingPoint operating_point(const EnvelopeCorner& k) {
     return {k.vin, k.ambient, k.current, k.v0, k.r};
 }
 
-std::size_t JunctionBalance::first_balancing_cell(double q) const {
+std::size_t JunctionBalance::first_balancing_cell(double q, double leak_scale) const {
     const double tol = converter::temperature_tolerance;
     for (std::size_t n = 0; n + 1 < t_.size(); ++n)
-        if (ambient_ + rth_ * (q * std::min(vf_[n], vf_[n + 1]) + leak_[n]) <= t_[n + 1] + tol)
+        if (ambient_ + rth_ * (q * std::min(vf_[n], vf_[n + 1]) + leak_scale * leak_[n]) <=
+            t_[n + 1] + tol)
             return n;
     return t_.size();
 }
@@ -160,6 +161,29 @@ double JunctionBalance::least_heating(double off) const {
 bool JunctionBalance::can_balance(double off) const {
     if (t_.size() < 2 || !(rth_ > 0.0)) return true;
     return first_balancing_cell(std::max(0.0, off) * current_) < t_.size();
+}
+
+bool JunctionBalance::can_balance(double off, double leak_scale) const {
+    if (t_.size() < 2 || !(rth_ > 0.0)) return true;
+    return first_balancing_cell(std::max(0.0, off) * current_, leak_scale) < t_.size();
+}
+
+double JunctionBalance::largest_settling_share(double leak_scale) const {
+    if (can_balance(1.0, leak_scale)) return 1.0;
+    if (!can_balance(0.0, leak_scale)) return -1.0;
+    // Cell n admits a balance for q·V_f,min(n) <= (t[n+1] + tol − Ta)/Rth − s·leakage(n): the
+    // largest share is the best cell's bound on q, over the current.
+    const double tol = converter::temperature_tolerance;
+    double q_most = 0.0;
+    for (std::size_t n = 0; n + 1 < t_.size(); ++n) {
+        const double room = (t_[n + 1] + tol - ambient_) / rth_ - leak_scale * leak_[n];
+        const double v = std::min(vf_[n], vf_[n + 1]);
+        if (room >= 0.0 && v > 0.0) q_most = std::max(q_most, room / v);
+    }
+    double share = std::min(1.0, q_most / current_);
+    // Rounding may put the quotient a hair past the cell's own test.
+    while (share > 0.0 && !can_balance(share, leak_scale)) share -= 1e-12 + 1e-12 * share;
+    return std::max(0.0, share);
 }
 
 double JunctionBalance::largest_settling_share() const {

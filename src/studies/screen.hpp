@@ -129,11 +129,15 @@ public:
     // passes its limit or runs away), and the largest share that still does (−1: none does).
     bool can_balance(double off) const;
     double largest_settling_share() const;
+    // The same with the leakage `leak_scale` times the corner's (a reverse-biased share of the
+    // period that much above the corner's ideal duty): the largest share, exact up to rounding.
+    bool can_balance(double off, double leak_scale) const;
+    double largest_settling_share(double leak_scale) const;
     const OperatingPoint& point() const { return point_; }
 
 private:
     // The first cell where heating `q`·V_f + leakage can meet the temperature (t_.size(): none).
-    std::size_t first_balancing_cell(double q) const;
+    std::size_t first_balancing_cell(double q, double leak_scale = 1.0) const;
 
     OperatingPoint point_;
     double ambient_ = 0.0, rth_ = 0.0, current_ = 0.0;

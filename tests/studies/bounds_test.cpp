@@ -799,16 +799,20 @@ struct Draw {
 
 // f(draw) for each of `draws` draws (random, deterministic from `rng_start`) whose supply can
 // drive the load and whose inductor passes screening.
+// Supplies from `lo` to `hi` times the nominal one; diodes from `diodes` (all when empty).
 template <class F>
-void for_random_pairs(const Case& s, const char* file, unsigned rng_start, int draws, F&& f) {
+void for_random_pairs(const Case& s, const char* file, unsigned rng_start, int draws, F&& f,
+                      double lo = 0.75, double hi = 2.25,
+                      const std::vector<std::size_t>& diodes = {}) {
     const auto& k = starter();
     std::mt19937 rng(rng_start);
     std::uniform_int_distribution<std::size_t> pick_l(0, k.inductors.size() - 1);
-    std::uniform_int_distribution<std::size_t> pick_d(0, k.diodes.size() - 1);
+    std::uniform_int_distribution<std::size_t> pick_d(
+        0, (diodes.empty() ? k.diodes.size() : diodes.size()) - 1);
     std::uniform_real_distribution<double> u(0.0, 1.0);
     for (int n = 0; n < draws; ++n) {
         auto d = s.d;
-        const double vs = s.d.supply.nom * (0.75 + 1.5 * u(rng));
+        const double vs = s.d.supply.nom * (lo + (hi - lo) * u(rng));
         d.supply = {vs, vs, vs};
         try {
             design::validate(d, file);
@@ -818,7 +822,8 @@ void for_random_pairs(const Case& s, const char* file, unsigned rng_start, int d
         const auto range = optimisation::setting_range(d);
         const auto ctx = studies::make_screen_context(d, range);
         const auto& l = k.inductors[pick_l(rng)];
-        const auto& di = k.diodes[pick_d(rng)];
+        const std::size_t pick = pick_d(rng);
+        const auto& di = k.diodes[diodes.empty() ? pick : diodes[pick]];
         const auto lm = parts::make_model(l);
         if (!studies::screen_inductor(ctx, l, lm).empty()) continue;
         const double x = range.lo * std::pow(range.hi / range.lo, u(rng));
@@ -866,53 +871,86 @@ TEST(BoundsJunction, DiodeChargeShareCoversFeasiblePairs) {
 
 // The pair bound closes a CCM stretch for the junction when the diode's share of the period,
 // scaled by its off-ramp's mean current over the corner's least current, passes the largest share
-// the junction can balance at (JunctionBalance). It rests on the conduction loss being at least
-// share·ī·V_f(ī) (V_f·i is convex in i: Jensen's inequality) and V_f rising with the current. Here
-// with the engine's own figures: at every CCM corner of a feasible pair, the junction balances
-// with its off share and the mean current the diode carries in it; and the pair's bound at that
-// very setting (a stretch of one point) stays open. Random starter pairs passing screening, on
-// each example at supplies from 0.75 to 2.25 times its nominal one.
+// the junction can balance at with its leakage scaled by the switch's least duty over the corner's
+// ideal one (JunctionBalance). It rests on the conduction loss being at least share·ī·V_f(ī)
+// (V_f·i is convex in i: Jensen's inequality), V_f rising with the current, and the leakage
+// heating over the on share. Checked with the engine's own figures at every CCM corner of random
+// feasible starter pairs (the junction balances with its off share, mean current and duty), and
+// the pair's bound at that very setting (a stretch of one point) must stay open: on each example
+// at supplies from 0.75 to 2.25 times its nominal one, and where leakage is much of the heating.
+namespace {
+
+struct JunctionEdge {
+    double closest = 0.0;               // the largest scaled share over the largest settling share
+    std::size_t checked = 0, leaky = 0; // corners; of them, leakage a tenth of the heating or more
+};
+
+void check_junction_edge(const char* file, const Draw& p, JunctionEdge& edge) {
+    const auto e = converter::evaluate_pair(p.d, p.l, p.di, p.setting);
+    if (!e.feasible) return;
+    const auto dm = parts::make_model(p.di);
+    auto ctx = p.ctx;
+    studies::set_winding_resistance(ctx, studies::winding_resistance_max(p.d, p.lm));
+    const auto scales = optimisation::make_scales(p.d);
+    auto point = studies::inductor_bound(ctx, p.l, p.lm, scales);
+    point.stretches = {{p.x, p.x, 0.0, 0.0, 0.0, 0.0}};
+    const auto db = studies::diode_bound(ctx, p.di, dm, scales);
+    EXPECT_TRUE(studies::pair_inductor_bound(ctx, p.l, p.lm, point, dm, db, scales).feasible)
+        << "the bound closes a feasible setting: " << file << ": " << p.l.id << " with " << p.di.id
+        << ", " << p.vs << " V, " << p.x;
+    const auto& lim = p.d.limits;
+    const double tj_bound = lim.tj_max ? std::min(dm.tj_max, *lim.tj_max) : dm.tj_max;
+    const auto corners = studies::part_corners(p.ctx, p.l.tolerance);
+    ASSERT_EQ(corners.size(), e.corners.size());
+    for (std::size_t c = 0; c < e.corners.size(); ++c) {
+        const auto& r = e.corners[c];
+        const auto& k = corners[c];
+        if (!(r.il_valley > 0.0) || !(r.duty < 1.0) || !(k.current > 0.0)) continue;
+        const double off = 1.0 - r.duty;
+        const double share = off * std::max(1.0, r.id_avg / off / k.current_lb());
+        // Leakage over the switch's on share, where the balance takes the ideal duty.
+        const double ideal = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
+        const double leak_scale = std::max(1.0, r.duty / ideal);
+        const studies::JunctionBalance balance(k, dm, tj_bound);
+        ++edge.checked;
+        const auto& q = r.losses;
+        if (q.diode_leakage >= 0.1 * (q.diode_leakage + q.diode_conduction)) ++edge.leaky;
+        edge.closest = std::max(edge.closest, share / balance.largest_settling_share(leak_scale));
+        EXPECT_TRUE(balance.can_balance(share, leak_scale))
+            << file << ": " << p.l.id << " with " << p.di.id << " at " << r.name << ", " << p.vs
+            << " V: share " << share;
+    }
+}
+
+} // namespace
+
 TEST(BoundsJunction, BalanceAdmitsTheDiodesOwnShareAndMeanCurrent) {
     for (const char* file :
          {"two-cell-charger.json", "reading-lamp.json", "workshop-floodlight.json"}) {
         const Case s(file);
-        double closest = 0.0; // the largest scaled share over the largest settling share
-        std::size_t checked = 0;
-        for_random_pairs(s, file, 7, 8000, [&](const Draw& p) {
-            const auto e = converter::evaluate_pair(p.d, p.l, p.di, p.setting);
-            if (!e.feasible) return;
-            const auto dm = parts::make_model(p.di);
-            auto ctx = p.ctx;
-            studies::set_winding_resistance(ctx, studies::winding_resistance_max(p.d, p.lm));
-            const auto scales = optimisation::make_scales(p.d);
-            auto point = studies::inductor_bound(ctx, p.l, p.lm, scales);
-            point.stretches = {{p.x, p.x, 0.0, 0.0, 0.0, 0.0}};
-            const auto db = studies::diode_bound(ctx, p.di, dm, scales);
-            EXPECT_TRUE(
-                studies::pair_inductor_bound(ctx, p.l, p.lm, point, dm, db, scales).feasible)
-                << "the bound closes a feasible setting: " << file << ": " << p.l.id << " with "
-                << p.di.id << ", " << p.vs << " V, " << p.x;
-            const auto& lim = p.d.limits;
-            const double tj_bound = lim.tj_max ? std::min(dm.tj_max, *lim.tj_max) : dm.tj_max;
-            const auto corners = studies::part_corners(p.ctx, p.l.tolerance);
-            ASSERT_EQ(corners.size(), e.corners.size());
-            for (std::size_t c = 0; c < e.corners.size(); ++c) {
-                const auto& r = e.corners[c];
-                const auto& k = corners[c];
-                if (!(r.il_valley > 0.0) || !(r.duty < 1.0) || !(k.current > 0.0)) continue;
-                const double off = 1.0 - r.duty;
-                const double share = off * std::max(1.0, r.id_avg / off / k.current_lb());
-                const studies::JunctionBalance balance(k, dm, tj_bound);
-                ++checked;
-                closest = std::max(closest, share / balance.largest_settling_share());
-                EXPECT_TRUE(balance.can_balance(share))
-                    << file << ": " << p.l.id << " with " << p.di.id << " at " << r.name << ", "
-                    << p.vs << " V: share " << share;
-            }
-        });
-        EXPECT_GT(checked, 100u) << file;
-        RecordProperty(std::string("closest_") + file, std::to_string(closest));
+        JunctionEdge edge;
+        for_random_pairs(s, file, 7, 8000,
+                         [&](const Draw& p) { check_junction_edge(file, p, edge); });
+        EXPECT_GT(edge.checked, 100u) << file;
+        RecordProperty(std::string("closest_") + file, std::to_string(edge.closest));
     }
+    // Where leakage is much of the heating: Schottky diodes of at most twice the floodlight's
+    // highest supply in Vrrm, at supplies from its nominal one to 1.2 times it.
+    const char* file = "workshop-floodlight.json";
+    const Case s(file);
+    std::vector<std::size_t> leaky;
+    const auto& k = starter();
+    for (std::size_t i = 0; i < k.diodes.size(); ++i)
+        if (k.diodes[i].technology == parts::DiodeTechnology::schottky &&
+            k.diodes[i].vrrm <= 2.0 * s.d.supply.max)
+            leaky.push_back(i);
+    JunctionEdge edge;
+    for_random_pairs(
+        s, file, 11, 8000, [&](const Draw& p) { check_junction_edge(file, p, edge); }, 1.0, 1.2,
+        leaky);
+    EXPECT_GT(edge.leaky, 50u);
+    RecordProperty("closest_leaky", std::to_string(edge.closest));
+    RecordProperty("leaky_corners", static_cast<int>(edge.leaky));
 }
 
 // The screens and floors take a feasible pair's average current to lie within

@@ -156,6 +156,19 @@ TEST(JunctionBalance, LargestSettlingShareSeparatesBalanceFromRunaway) {
         EXPECT_FALSE(balance.can_balance(std::min(1.0, s + 1e-6)));
         EXPECT_FALSE(scan_balances(m, std::min(1.0, s + 1e-6))) << "ir " << ir;
         EXPECT_TRUE(scan_balances(m, s - 0.01)) << "ir " << ir;
+        // With more leakage (a duty above the corner's ideal one), worked cell by cell: the
+        // bisection's share at the corner's own leakage, and the edge of balance above it.
+        EXPECT_NEAR(balance.largest_settling_share(1.0), s, 1e-9) << "ir " << ir;
+        double before = s;
+        for (double scale : {1.05, 1.3, 2.0}) {
+            const double sl = balance.largest_settling_share(scale);
+            EXPECT_LE(sl, before) << "ir " << ir << ", leakage x" << scale;
+            before = sl;
+            if (sl <= 0.0) continue;
+            EXPECT_TRUE(balance.can_balance(sl, scale)) << "ir " << ir << ", leakage x" << scale;
+            EXPECT_FALSE(balance.can_balance(sl + 1e-6, scale))
+                << "ir " << ir << ", leakage x" << scale;
+        }
     }
 }
 
