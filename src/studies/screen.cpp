@@ -182,20 +182,27 @@ double JunctionBalance::largest_settling_share(double leak_scale) const {
     }
     double share = std::min(1.0, q_most / current_);
     // Rounding may put the quotient a hair past the cell's own test.
-    while (share > 0.0 && !can_balance(share, leak_scale)) share -= 1e-12 + 1e-12 * share;
+    for (int nudge = 0; nudge < 8 && share > 0.0 && !can_balance(share, leak_scale); ++nudge)
+        share -= 1e-12 + 1e-12 * share;
+    if (share > 0.0 && !can_balance(share, leak_scale)) // not expected: halve down to it
+        share = edge_below(share, leak_scale);
     return std::max(0.0, share);
+}
+
+double JunctionBalance::edge_below(double hi, double leak_scale) const {
+    double lo = 0.0;
+    for (int n = 0; n < 40; ++n) { // 40 halvings: the share to 1e-12, far below any cell's effect
+        const double mid = 0.5 * (lo + hi);
+        (can_balance(mid, leak_scale) ? lo : hi) = mid;
+    }
+    return lo;
 }
 
 double JunctionBalance::largest_settling_share() const {
     // More conduction heats every cell more, so the admissible shares form an interval [0, s].
     if (can_balance(1.0)) return 1.0;
     if (!can_balance(0.0)) return -1.0;
-    double lo = 0.0, hi = 1.0;
-    for (int n = 0; n < 40; ++n) { // 40 halvings: the share to 1e-12, far below any cell's effect
-        const double mid = 0.5 * (lo + hi);
-        (can_balance(mid) ? lo : hi) = mid;
-    }
-    return lo;
+    return edge_below(1.0, 1.0);
 }
 
 double ramp_mean_share(double density_ratio) {

@@ -138,6 +138,8 @@ public:
 private:
     // The first cell where heating `q`·V_f + leakage can meet the temperature (t_.size(): none).
     std::size_t first_balancing_cell(double q, double leak_scale = 1.0) const;
+    // The largest share in [0, hi] that balances, by halving (can_balance(0) must hold).
+    double edge_below(double hi, double leak_scale) const;
 
     OperatingPoint point_;
     double ambient_ = 0.0, rth_ = 0.0, current_ = 0.0;
