@@ -465,15 +465,17 @@ public:
             // V_f·i is at least V_f(ī)·ī, and V_f rises with i): the share scaled by their ratio.
             if (diode_bound_ != nullptr && valley_lb > 0.0 && von_lb > 0.0) {
                 const double off = von_lb / (von_lb + voff_ub);
+                // The off-ramp's least mean current, valley + h·ΔI (ramp_mean_share).
+                double mean_off = 0.0;
                 double heating_share = off, leak_scale = 1.0;
                 if (ramps_known) {
                     const double h = ramp_mean_share(r_off);
-                    heating_share *=
-                        std::max(1.0, ((1.0 - h) * valley_lb + h * peak_lb) / k.current_lb());
+                    mean_off = (1.0 - h) * valley_lb + h * peak_lb;
+                    heating_share *= std::max(1.0, mean_off / k.current_lb());
                     // Its leakage heats over the switch's on share, at least the volt-second
                     // duty, where the balance took the corner's ideal duty.
-                    const double ideal = (k.v0 + k.r * k.current) / k.vin;
-                    if (ideal > 0.0) leak_scale = voff_least / (voff_least + von_most) / ideal;
+                    if (const double ideal = k.ideal_duty(); ideal > 0.0)
+                        leak_scale = voff_least / (voff_least + von_most) / ideal;
                 }
                 for (const auto& st : diode_bound_->settling) {
                     if (st.point != operating_point(k)) continue;
@@ -482,13 +484,9 @@ public:
                         if (DiodeBound::leak_levels[i] <= leak_scale) share = st.share_with_leak[i];
                     if (heating_share > share) close("tj_max");
                 }
-                // Its average current is that share times the off-ramp's mean, at least
-                // valley + h·ΔI (ramp_mean_share).
-                if (ramps_known) {
-                    const double h = ramp_mean_share(r_off);
-                    if (off * ((1.0 - h) * valley_lb + h * peak_lb) > diode_bound_->current_max)
-                        close("diode_current");
-                }
+                // Its average current is that share times the off-ramp's mean.
+                if (ramps_known && off * mean_off > diode_bound_->current_max)
+                    close("diode_current");
             }
             if (!k.nominal) continue;
             // Switch transitions (Mohan, Undeland, Robbins 3rd ed. §2-7), gate and C_oss.

@@ -79,7 +79,7 @@ JunctionFloor junction_floor(const EnvelopeCorner& k, const parts::DiodeModel& m
     j.tj = k.ambient;
     if (k.vin <= 0.0 || k.current <= 0.0) return j;
     const double i = k.current_lb();
-    const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
+    const double duty = k.ideal_duty();
     const double vf = std::min(m.vf(i, k.ambient), m.vf(i, std::max(k.ambient, tj_bound)));
     j.conduction = k.off_share * i * std::max(0.0, vf);
     for (int pass = 0; pass < passes; ++pass) {
@@ -94,7 +94,7 @@ bool junction_can_settle(const EnvelopeCorner& k, const parts::DiodeModel& m, do
     if (k.vin <= 0.0 || k.current <= 0.0 || !(tj_bound > k.ambient)) return true;
     constexpr int cells = 64;
     const double i = k.current_lb();
-    const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
+    const double duty = k.ideal_duty();
     const double off = k.off_share * i;
     auto conduction = [&](double t) { return off * std::max(0.0, m.vf(i, t)); };
     auto leakage = [&](double t) { return m.leakage(k.vin, t) * k.vin * duty; };
@@ -116,7 +116,7 @@ JunctionBalance::JunctionBalance(const EnvelopeCorner& k, const parts::DiodeMode
     : point_(operating_point(k)), ambient_(k.ambient), rth_(m.rth_ja), current_(k.current_lb()) {
     if (k.vin <= 0.0 || k.current <= 0.0) return;
     constexpr int cells = 128; // a cell's width over Rth is what the floor may give away
-    const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
+    const double duty = k.ideal_duty();
     const double top = std::max(k.ambient, tj_bound);
     const double h = (top - k.ambient) / cells;
     for (int n = 0; n <= (top > k.ambient ? cells : 0); ++n) {
@@ -158,10 +158,7 @@ double JunctionBalance::least_heating(double off) const {
     return std::max({trivial, (t_[n] - ambient_ - tol) / rth_, in_cell});
 }
 
-bool JunctionBalance::can_balance(double off) const {
-    if (t_.size() < 2 || !(rth_ > 0.0)) return true;
-    return first_balancing_cell(std::max(0.0, off) * current_) < t_.size();
-}
+bool JunctionBalance::can_balance(double off) const { return can_balance(off, 1.0); }
 
 bool JunctionBalance::can_balance(double off, double leak_scale) const {
     if (t_.size() < 2 || !(rth_ > 0.0)) return true;
@@ -291,7 +288,7 @@ double corner_loss_floor(const ScreenContext& c, const EnvelopeCorner& k) {
     if (k.vin <= 0.0) return 0.0;
     const auto& d = *c.design;
     const double i = k.current_lb();
-    const double duty = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
+    const double duty = k.ideal_duty();
     const double ron = converter::switch_on_resistance(d.sw, k.ambient);
     // I_rms >= I_avg makes the sense term exact; the allowance is for the switch's duty.
     return i * i * (std::max(0.0, d.sense_resistor) + loss_slack * duty * ron);

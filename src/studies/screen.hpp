@@ -12,6 +12,7 @@
 #include "parts/inductor.hpp"
 #include "parts/inductor_model.hpp"
 
+#include <algorithm>
 #include <string>
 #include <vector>
 
@@ -56,6 +57,11 @@ struct EnvelopeCorner {
     double current_share = pwm_current_share;
     double current_lb() const { return current_share * current; }
     double current_ub() const { return (2.0 - current_share) * current; }
+    // The lossless duty, the load's voltage at the corner's current over Vin, in [0, 1], as the
+    // floors take it.
+    double ideal_duty() const {
+        return vin > 0.0 ? std::clamp((v0 + r * current) / vin, 0.0, 1.0) : 0.0;
+    }
     // The share of the charge the diode carries at least: duty_slack·(1 − D) with
     // D = (V_load + I·(R_sense + R_w))/(Vin − I·R_on), the CCM duty with the winding's largest
     // resistance R_w (ScreenContext::winding_resistance) and before the diode's drop, which only

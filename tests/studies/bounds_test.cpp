@@ -909,7 +909,7 @@ void check_junction_edge(const char* file, const Draw& p, JunctionEdge& edge) {
         const double off = 1.0 - r.duty;
         const double share = off * std::max(1.0, r.id_avg / off / k.current_lb());
         // Leakage over the switch's on share, where the balance takes the ideal duty.
-        const double ideal = std::clamp((k.v0 + k.r * k.current) / k.vin, 0.0, 1.0);
+        const double ideal = k.ideal_duty();
         const double leak_scale = std::max(1.0, r.duty / ideal);
         const studies::JunctionBalance balance(k, dm, tj_bound);
         ++edge.checked;
