@@ -91,5 +91,11 @@ PreparedPair prepare_pair(const design::Design& d, const parts::Inductor& l,
 PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
                              const parts::Diode& diode, const PreparedPair& prepared,
                              const Setting& s);
+// The same with the models and corners made elsewhere: a ranking makes each part's model once and
+// the corners once for each inductance tolerance (make_model, make_corners), not once a pair.
+PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
+                             const parts::Diode& diode, const parts::InductorModel& lm,
+                             const parts::DiodeModel& dm, const std::vector<Corner>& corners,
+                             const Setting& s);
 
 } // namespace coilsieve::converter

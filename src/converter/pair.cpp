@@ -102,10 +102,13 @@ PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
 PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
                              const parts::Diode& diode, const PreparedPair& prepared,
                              const Setting& s) {
-    const parts::InductorModel& lm = prepared.inductor;
-    const parts::DiodeModel& dm = prepared.diode;
-    const std::vector<Corner>& corners = prepared.corners;
+    return evaluate_pair(d, l, diode, prepared.inductor, prepared.diode, prepared.corners, s);
+}
 
+PairEvaluation evaluate_pair(const design::Design& d, const parts::Inductor& l,
+                             const parts::Diode& diode, const parts::InductorModel& lm,
+                             const parts::DiodeModel& dm, const std::vector<Corner>& corners,
+                             const Setting& s) {
     PairEvaluation e;
     e.corners.reserve(corners.size());
     // One reverse-voltage check, up to thirteen per corner, efficiency, heights and footprint: no

@@ -5,12 +5,12 @@
 namespace coilsieve::studies {
 
 PairEvaluatorFn default_evaluator() {
-    return [](const design::Design& d, const parts::Inductor& l, const parts::Diode& diode) {
-        return optimisation::PairEvaluator(
-            [&d, &l, &diode,
-             prepared = converter::prepare_pair(d, l, diode)](const converter::Setting& s) {
-                return converter::evaluate_pair(d, l, diode, prepared, s);
-            });
+    return [](const design::Design& d, const PreparedParts& p) {
+        return optimisation::PairEvaluator([&d, &l = p.inductor, &diode = p.diode,
+                                            &lm = p.inductor_model, &dm = p.diode_model,
+                                            &corners = p.corners](const converter::Setting& s) {
+            return converter::evaluate_pair(d, l, diode, lm, dm, corners, s);
+        });
     };
 }
 

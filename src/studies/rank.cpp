@@ -211,11 +211,18 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
                     [&](double a, double b) { return !tol_less(a, b) && !tol_less(b, a); }),
         tolerances.end());
     std::vector<std::vector<EnvelopeCorner>> corner_sets;
-    for (const double t : tolerances) corner_sets.push_back(part_corners(ctx, t));
-    auto corners_of = [&](const parts::Inductor& part) -> const std::vector<EnvelopeCorner>& {
+    std::vector<std::vector<converter::Corner>> engine_corner_sets; // the evaluations'
+    for (const double t : tolerances) {
+        corner_sets.push_back(part_corners(ctx, t));
+        engine_corner_sets.push_back(converter::make_corners(d, t));
+    }
+    auto tolerance_index = [&](const parts::Inductor& part) {
         const auto at =
             std::lower_bound(tolerances.begin(), tolerances.end(), part.tolerance, tol_less);
-        return corner_sets[static_cast<std::size_t>(at - tolerances.begin())];
+        return static_cast<std::size_t>(at - tolerances.begin());
+    };
+    auto corners_of = [&](const parts::Inductor& part) -> const std::vector<EnvelopeCorner>& {
+        return corner_sets[tolerance_index(part)];
     };
     workers.run(lprep.size(), [&](std::size_t k) {
         const auto& part = inductors[res.inductors_used[k]];
@@ -351,8 +358,16 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
 
     const optimisation::Scales scales = sc;
     const converter::Setting base = converter::default_setting(d);
-    std::vector<std::size_t> dprep_of(diodes.size(), 0);
+    std::vector<std::size_t> lprep_of(inductors.size(), 0), dprep_of(diodes.size(), 0);
+    for (std::size_t k = 0; k < res.inductors_used.size(); ++k) lprep_of[res.inductors_used[k]] = k;
     for (std::size_t k = 0; k < res.diodes_used.size(); ++k) dprep_of[res.diodes_used[k]] = k;
+    // The evaluator of a pair whose parts both passed screening (their models are made).
+    auto evaluator_of = [&](std::size_t inductor, std::size_t diode) {
+        const auto& l = inductors[inductor];
+        const DPrep& dp = dprep[dprep_of[diode]];
+        return evaluate(d, PreparedParts{l, dp.prepared, *lprep[lprep_of[inductor]].model,
+                                         *dp.model, engine_corner_sets[tolerance_index(l)]});
+    };
     // A pair that can only matter for the Pareto set is first probed: from its start
     // (PairBound::start_setting), walked into its open window until a point meets the limits
     // (walk_hint). The tuner is handed those same points and ends no worse, so the tuned setting
@@ -410,7 +425,6 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         PairResult& pr = job.r;
         const auto& l = inductors[pr.inductor];
         const auto& di = diodes[pr.diode];
-        const auto& prepared = dprep[dprep_of[pr.diode]].prepared;
         const auto scorer = optimisation::make_scorer(l, di, w, scales);
         const auto& db = dprep[job.dk].bound;
         // The pair's bounds with its own diode, stretch by stretch as the tests below need them.
@@ -464,7 +478,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         // point meets the limits, in every mode (same answer).
         std::vector<optimisation::TunedPoint> walked;
         try {
-            const optimisation::PairEvaluator ev = evaluate(d, l, prepared);
+            const optimisation::PairEvaluator ev = evaluator_of(pr.inductor, pr.diode);
             if (const auto x = job.kept->start)
                 walked = optimisation::walk_hint(res.range, base, ev, scorer, *x,
                                                  window_middle(job.kept->window, *x));
@@ -791,7 +805,7 @@ RankResult rank_pairs(const design::Design& d, const std::vector<parts::Inductor
         if (const auto& m = dprep[dprep_of[p.diode]].model; m && ctx.target > 0.0)
             p.diode_vf = m->vf(ctx.target, units::celsius(25.0));
         if (!p.tune.feasible) return;
-        const auto ev = evaluate(d, inductors[p.inductor], dprep[dprep_of[p.diode]].prepared);
+        const auto ev = evaluator_of(p.inductor, p.diode);
         p.printed = optimisation::printed_value(res.range, tuned, ev, value);
     };
     workers.run(top.size(), [&](std::size_t k) { print_setting(top[k]); });

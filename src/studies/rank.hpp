@@ -34,12 +34,21 @@ public:
     using std::invalid_argument::invalid_argument;
 };
 
-// Makes the evaluator of one pair over its settings (what depends on the parts alone is prepared
-// once per pair).
-using PairEvaluatorFn = std::function<optimisation::PairEvaluator(
-    const design::Design&, const parts::Inductor&, const parts::Diode&)>;
+// One pair as the ranking prepared its parts: each part's model made once, the engine's corners
+// once for each inductance tolerance. All of it outlives the evaluator made from it.
+struct PreparedParts {
+    const parts::Inductor& inductor;
+    const parts::Diode& diode; // with its fitted forward parameters
+    const parts::InductorModel& inductor_model;
+    const parts::DiodeModel& diode_model;
+    const std::vector<converter::Corner>& corners; // converter::make_corners
+};
 
-// converter::evaluate_pair with converter::prepare_pair.
+// Makes the evaluator of one pair over its settings.
+using PairEvaluatorFn =
+    std::function<optimisation::PairEvaluator(const design::Design&, const PreparedParts&)>;
+
+// converter::evaluate_pair on the prepared models and corners.
 PairEvaluatorFn default_evaluator();
 
 struct Progress {
