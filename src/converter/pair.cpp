@@ -60,8 +60,9 @@ public:
     template <class Message>
     void add(std::string_view limit, const SharedName& corner, double value, double bound,
              double margin, Message&& message) {
-        LimitCheck k;
-        k.limit = std::string(limit);
+        // Made in place: this runs for every limit at every corner of every evaluation.
+        LimitCheck& k = e_.checks.emplace_back();
+        k.limit.assign(limit);
         k.corner = corner;
         k.value = std::isfinite(value) ? value : 0.0;
         k.bound = bound;
@@ -70,7 +71,6 @@ public:
             k.message = message();
             e_.violations.push_back(k);
         }
-        e_.checks.push_back(std::move(k));
     }
 
 private:
