@@ -45,6 +45,13 @@ struct CornerParts {
     double drop_at_cap = 0.0;    // drop_max at the saturation ceiling, where every stretch starts
     // With a diode: its forward law at the ambient, 1 K below it and at the junction limit.
     parts::ForwardLaw vf_ambient, vf_below, vf_limit;
+    // With the diode's bound: its heating balance at this corner's operating point (the first
+    // DiodeBound::nominal entry there, if any) and the least settling shares of the
+    // DiodeBound::settling entries there, at the corner's leakage and at each leak level.
+    const JunctionBalance* balance = nullptr;
+    bool settles = false;
+    double settle_share = 1.0;
+    std::array<double, DiodeBound::leak_levels.size()> settle_with_leak{};
 };
 
 // Bounds of the figures over a setting interval [x1, x2] (a degenerate one gives a point value).
@@ -101,6 +108,27 @@ public:
                 p.vf_limit = diode_->forward_at(std::max(k.ambient, tj_bound_));
             }
             p.drop_at_cap = drop_max(std::max(0.0, peak_cap_), p);
+            if (diode_bound_ != nullptr) {
+                const OperatingPoint op = operating_point(k);
+                for (const auto& b : diode_bound_->nominal)
+                    if (b.point() == op) {
+                        p.balance = &b;
+                        break;
+                    }
+                for (const auto& st : diode_bound_->settling) {
+                    if (st.point != op) continue;
+                    if (!p.settles) {
+                        p.settles = true;
+                        p.settle_share = st.share;
+                        p.settle_with_leak = st.share_with_leak;
+                        continue;
+                    }
+                    p.settle_share = std::min(p.settle_share, st.share);
+                    for (std::size_t i = 0; i < DiodeBound::leak_levels.size(); ++i)
+                        p.settle_with_leak[i] =
+                            std::min(p.settle_with_leak[i], st.share_with_leak[i]);
+                }
+            }
             parts_.push_back(p);
         }
     }
@@ -143,11 +171,8 @@ public:
             off = std::max(off,
                            von_lb / (von_lb + voff_ub) * std::max(1.0, mean_off / k.current_lb()));
         const double floor_off = k.off_share;
-        if (!(off > floor_off)) return 0.0;
-        for (const auto& b : diode_bound_->nominal)
-            if (b.point() == operating_point(k))
-                return std::max(0.0, b.least_heating(off) - b.least_heating(floor_off));
-        return 0.0;
+        if (!(off > floor_off) || p.balance == nullptr) return 0.0;
+        return std::max(0.0, p.balance->least_heating(off) - p.balance->least_heating(floor_off));
     }
 
     double value_at(double u) const {
@@ -477,11 +502,10 @@ public:
                     if (const double ideal = k.ideal_duty(); ideal > 0.0)
                         leak_scale = voff_least / (voff_least + von_most) / ideal;
                 }
-                for (const auto& st : diode_bound_->settling) {
-                    if (st.point != operating_point(k)) continue;
-                    double share = st.share; // more leakage balances at no larger a share
+                if (p.settles) {
+                    double share = p.settle_share; // more leakage balances at no larger a share
                     for (std::size_t i = 0; i < DiodeBound::leak_levels.size(); ++i)
-                        if (DiodeBound::leak_levels[i] <= leak_scale) share = st.share_with_leak[i];
+                        if (DiodeBound::leak_levels[i] <= leak_scale) share = p.settle_with_leak[i];
                     if (heating_share > share) close("tj_max");
                 }
                 // Its average current is that share times the off-ramp's mean.
