@@ -103,9 +103,19 @@ public:
             p.esr = d_.output_capacitor ? std::max(0.0, d_.output_capacitor->esr) : 0.0;
             p.off_own = off_share_with(d_, k, dcr_ub_);
             if (diode_ != nullptr) {
-                p.vf_ambient = diode_->forward_at(k.ambient);
-                p.vf_below = diode_->forward_at(k.ambient - 1.0);
-                p.vf_limit = diode_->forward_at(std::max(k.ambient, tj_bound_));
+                const DiodeBound::AmbientLaws* made = nullptr;
+                if (diode_bound_ != nullptr)
+                    for (const auto& x : diode_bound_->laws)
+                        if (x.ambient == k.ambient) made = &x;
+                if (made != nullptr) { // the same model's (diode_bound)
+                    p.vf_ambient = made->at;
+                    p.vf_below = made->below;
+                    p.vf_limit = made->limit;
+                } else {
+                    p.vf_ambient = diode_->forward_at(k.ambient);
+                    p.vf_below = diode_->forward_at(k.ambient - 1.0);
+                    p.vf_limit = diode_->forward_at(std::max(k.ambient, tj_bound_));
+                }
             }
             p.drop_at_cap = drop_max(std::max(0.0, peak_cap_), p);
             if (diode_bound_ != nullptr) {
@@ -734,6 +744,10 @@ DiodeBound diode_bound(const ScreenContext& c, const parts::Diode& diode,
     const double tj_bound = lim.tj_max ? std::min(m.tj_max, *lim.tj_max) : m.tj_max;
     double loss = 0.0, e_sw = 0.0, w_sum = 0.0;
     for (const auto& k : c.corners) {
+        if (std::none_of(b.laws.begin(), b.laws.end(),
+                         [&](const auto& x) { return x.ambient == k.ambient; }))
+            b.laws.push_back({k.ambient, m.forward_at(k.ambient), m.forward_at(k.ambient - 1.0),
+                              m.forward_at(std::max(k.ambient, tj_bound))});
         const bool driven = k.vin > 0.0 && k.current > 0.0;
         std::optional<JunctionBalance> balance;
         if (driven) {

@@ -124,6 +124,13 @@ struct DiodeBound {
         std::array<double, leak_levels.size()> share_with_leak{};
     };
     std::vector<Settling> settling;
+    // Its forward law at each ambient of the design's corners, 1 K below it and at its junction
+    // limit, as the pair bounds take them: made once here, not again for every pair.
+    struct AmbientLaws {
+        double ambient = 0.0;
+        parts::ForwardLaw at, below, limit;
+    };
+    std::vector<AmbientLaws> laws;
 };
 
 // `corners` is part_corners(c, l.tolerance): a caller bounding many parts makes it once per
