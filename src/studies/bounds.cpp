@@ -29,6 +29,13 @@ constexpr double refine_tolerance = 2e-4; // stop when the bound can rise no mor
 // the lamp's Pareto-phase pairs dominated where whole stretches showed 22 %.
 constexpr int probe_halvings = 3;
 
+// A diode's forward laws at an ambient, 1 K below it and at its junction limit: what the pair
+// bounds take its drop from (InductorBounder::drop_max, drop_min).
+DiodeBound::AmbientLaws ambient_laws(const parts::DiodeModel& m, double ambient, double tj_bound) {
+    return {ambient, m.forward_at(ambient), m.forward_at(ambient - 1.0),
+            m.forward_at(std::max(ambient, tj_bound))};
+}
+
 // What an inductor brings to every corner, independent of the setting.
 struct CornerParts {
     const EnvelopeCorner* k = nullptr;
@@ -43,8 +50,8 @@ struct CornerParts {
     double cap = 0.0, esr = 0.0; // F, Ω of the output capacitor when it takes ripple
     double off_own = 0.0;        // the diode's charge share with this winding (off_share_with)
     double drop_at_cap = 0.0;    // drop_max at the saturation ceiling, where every stretch starts
-    // With a diode: its forward law at the ambient, 1 K below it and at the junction limit.
-    parts::ForwardLaw vf_ambient, vf_below, vf_limit;
+    // With a diode: its forward laws at the ambient, 1 K below it and at the junction limit.
+    DiodeBound::AmbientLaws vf;
     // With the diode's bound: its heating balance at this corner's operating point (the first
     // DiodeBound::nominal entry there, if any) and the least settling shares of the
     // DiodeBound::settling entries there, at the corner's leakage and at each leak level.
@@ -104,18 +111,13 @@ public:
             p.off_own = off_share_with(d_, k, dcr_ub_);
             if (diode_ != nullptr) {
                 const DiodeBound::AmbientLaws* made = nullptr;
-                if (diode_bound_ != nullptr)
+                if (diode_bound_ != nullptr) // the same model's (diode_bound)
                     for (const auto& x : diode_bound_->laws)
-                        if (x.ambient == k.ambient) made = &x;
-                if (made != nullptr) { // the same model's (diode_bound)
-                    p.vf_ambient = made->at;
-                    p.vf_below = made->below;
-                    p.vf_limit = made->limit;
-                } else {
-                    p.vf_ambient = diode_->forward_at(k.ambient);
-                    p.vf_below = diode_->forward_at(k.ambient - 1.0);
-                    p.vf_limit = diode_->forward_at(std::max(k.ambient, tj_bound_));
-                }
+                        if (x.ambient == k.ambient) {
+                            made = &x;
+                            break;
+                        }
+                p.vf = made != nullptr ? *made : ambient_laws(*diode_, k.ambient, tj_bound_);
             }
             p.drop_at_cap = drop_max(std::max(0.0, peak_cap_), p);
             if (diode_bound_ != nullptr) {
@@ -149,8 +151,8 @@ public:
     // whose slope is at most the backward difference there.
     double drop_max(double i, const CornerParts& p) const {
         if (diode_ == nullptr) return diode_drop_max;
-        const double v = p.vf_ambient.vf(i);
-        const double slope = std::max(0.0, v - p.vf_below.vf(i));
+        const double v = p.vf.at.vf(i);
+        const double slope = std::max(0.0, v - p.vf.below.vf(i));
         return std::min(diode_drop_max, v + slope * std::max(0.0, tj_bound_ - p.k->ambient));
     }
 
@@ -159,7 +161,7 @@ public:
     // least value is at an end.
     double drop_min(double i, const CornerParts& p) const {
         if (diode_ == nullptr || !(i > 0.0)) return 0.0;
-        return std::max(0.0, std::min(p.vf_ambient.vf(i), p.vf_limit.vf(i)));
+        return std::max(0.0, std::min(p.vf.at.vf(i), p.vf.limit.vf(i)));
     }
 
     // With a diode and CCM certain (the valley above zero), the diode conducts for the whole off
@@ -746,8 +748,7 @@ DiodeBound diode_bound(const ScreenContext& c, const parts::Diode& diode,
     for (const auto& k : c.corners) {
         if (std::none_of(b.laws.begin(), b.laws.end(),
                          [&](const auto& x) { return x.ambient == k.ambient; }))
-            b.laws.push_back({k.ambient, m.forward_at(k.ambient), m.forward_at(k.ambient - 1.0),
-                              m.forward_at(std::max(k.ambient, tj_bound))});
+            b.laws.push_back(ambient_laws(m, k.ambient, tj_bound));
         const bool driven = k.vin > 0.0 && k.current > 0.0;
         std::optional<JunctionBalance> balance;
         if (driven) {
